@@ -1,0 +1,36 @@
+/* qv-solver.h — harmonic normal modes from a structure and its Hessian.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#pragma once
+#include <glib.h>
+#include "qv-hessian.h"
+#include "qv-mode-set.h"
+#include "qv-progress.h"
+#include "qv-structure.h"
+
+G_BEGIN_DECLS
+
+typedef struct {
+  QvProjection projection;
+  gsize lowest;                /* 0: all modes (dsyevd); k: lowest k (dsyevr) */
+  double degeneracy_tolerance; /* relative to max|λ|; 0 picks the default */
+} QvSolveOptions;
+
+#define QV_SOLVE_DEFAULT_DEGENERACY 1e-6
+
+void qv_solve_options_init (QvSolveOptions *options);
+
+/* Largest n the all-modes solver takes: its workspace 1+6n+2n² must fit a
+ * 32-bit lapack_int. */
+gsize qv_solver_max_full_dimension (void);
+
+/* Mass-weights in place: K_ij = H_ij / √(m_i m_j) (both triangles). */
+void qv_solver_mass_weight (double *matrix, gsize n_atoms, const double *masses);
+
+/* Solves in place: @hessian (eV/Å², any symmetry) is consumed — its memory
+ * becomes the mode vectors — and freed. Peak memory: the matrix plus LAPACK
+ * workspace. */
+QvModeSet *qv_solve (const QvStructure *structure, QvHessian *hessian,
+                     const QvSolveOptions *options, const QvProgress *progress,
+                     GError **error);
+
+G_END_DECLS
