@@ -1,0 +1,34 @@
+/* qv-bundle.h — the Quaver bundle, *.quaver.json (docs/formats.md,
+ * data/quaver-bundle.schema.json).
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#pragma once
+#include <glib.h>
+#include "qv-hessian.h"
+#include "qv-mode-set.h"
+#include "qv-structure.h"
+
+G_BEGIN_DECLS
+
+/* Deepest JSON nesting accepted (checked before parsing). */
+#define QV_BUNDLE_MAX_DEPTH 64
+/* Largest Hessian dimension stored inline; beyond it, a file beside the bundle. */
+#define QV_BUNDLE_MAX_INLINE_N 600
+
+typedef struct {
+  char *title;                 /* optional */
+  QvStructure *structure;      /* masses with the bundle's overrides applied */
+  QvHessian *hessian;          /* eV/Å², or NULL when @modes is given */
+  char *hessian_units;         /* as written in the bundle */
+  char *hessian_path;          /* resolved path when referenced, else NULL */
+  QvModeSet *modes;            /* precomputed modes, or NULL */
+} QvBundle;
+
+/* @path is used for messages and to resolve a relative Hessian path, which
+ * must stay beside or below the bundle's folder. */
+QvBundle *qv_bundle_read_data (const char *data, gsize length, const char *path,
+                               GError **error);
+QvBundle *qv_bundle_read_file (const char *path, GError **error);
+void qv_bundle_free (QvBundle *bundle);
+G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvBundle, qv_bundle_free)
+
+G_END_DECLS

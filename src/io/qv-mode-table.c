@@ -1,0 +1,482 @@
+/* qv-mode-table.c
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <json-glib/json-glib.h>
+#include <math.h>
+#include <string.h>
+#include "qv-config.h"
+#include "qv-element.h"
+#include "qv-error.h"
+#include "qv-mode-table.h"
+
+gboolean
+qv_table_format_parse (const char *text, QvTableFormat *format, GError **error)
+{
+  static const struct { const char *name; QvTableFormat f; } names[] = {
+    { "text", QV_TABLE_TEXT }, { "csv", QV_TABLE_CSV },
+    { "json", QV_TABLE_JSON }, { "markdown", QV_TABLE_MARKDOWN }, { "md", QV_TABLE_MARKDOWN },
+  };
+  for (gsize i = 0; i < G_N_ELEMENTS (names); i++)
+    if (text && g_ascii_strcasecmp (text, names[i].name) == 0)
+      {
+        *format = names[i].f;
+        return TRUE;
+      }
+  g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
+               "unknown format '%s'; accepted: text, csv, json, markdown", text ? text : "");
+  return FALSE;
+}
+
+/* One row of the table, computed once for every format. */
+typedef struct {
+  double wavenumber;           /* signed cm⁻¹ */
+  double shown;                /* |value| in the chosen unit */
+  gboolean imaginary;
+  double reduced_mass, force_constant, collectivity;
+  QvTurningPoint tp;
+  QvThermalAmplitude th;
+  gsize main_atom;             /* largest participation */
+  double main_share;
+  gboolean has_mixing;
+  double mix_translation, mix_rotation;
+} Row;
+
+static void
+compute_row (const QvModeReport *r, gsize k, Row *row)
+{
+  const QvModeSet *m = r->modes;
+  row->wavenumber = qv_mode_set_wavenumber (m, k);
+  row->imaginary = qv_mode_set_is_imaginary (m, k);
+  row->shown = fabs (qv_frequency_from_wavenumber (row->wavenumber, r->unit));
+  row->reduced_mass = qv_mode_set_reduced_mass (m, k);
+  row->force_constant = qv_mode_set_force_constant (m, k);
+  row->collectivity = qv_mode_set_collectivity (m, k);
+  qv_mode_set_turning_point (m, k, r->level, &row->tp);
+  qv_mode_set_thermal (m, k, r->temperature, &row->th);
+  {
+    g_autofree double *p = g_new (double, MAX (m->n_atoms, 1));
+    qv_mode_set_participation (m, k, p);
+    row->main_atom = 0;
+    for (gsize a = 1; a < m->n_atoms; a++)
+      if (p[a] > p[row->main_atom])
+        row->main_atom = a;
+    row->main_share = p[row->main_atom];
+  }
+  row->has_mixing = qv_mode_set_rigid_mixing (m, k, &row->mix_translation, &row->mix_rotation);
+}
+
+/* "H9": element symbol and 1-based index. */
+static void
+atom_name (char *buf, gsize size, const QvStructure *s, gsize atom)
+{
+  const QvElement *e = qv_element_from_z (s->atoms[atom].z);
+  g_snprintf (buf, size, "%s%" G_GSIZE_FORMAT, e ? e->symbol : "?", atom + 1);
+}
+
+/* Rounds away the sign of a value that prints as zero ("-0.00"). */
+static double
+tidy (double x, double resolution)
+{
+  return fabs (x) < 0.5 * resolution ? 0.0 : x;
+}
+
+static const char *
+projection_description (const QvModeSet *m)
+{
+  if (m->projection == QV_PROJECTION_NONE)
+    return m->has_hessian ? "none (rigid-body motion kept)" : "none (precomputed modes)";
+  if (m->projection == QV_PROJECTION_TRANSLATIONS)
+    return "translations";
+  return m->linear ? "full (3 translations + 2 rotations, linear)"
+                   : m->n_rotations == 3 ? "full (3 translations + 3 rotations)"
+                   : "full (3 translations, no rotation: a single atom)";
+}
+
+static void
+append_residuals (GString *out, const char *prefix, const QvModeSet *m)
+{
+  if (m->n_translations + m->n_rotations == 0 || !m->has_hessian)
+    return;
+  g_string_append_printf (out, "%srigid-body residuals (cm^-1):", prefix);
+  if (m->n_translations)
+    {
+      g_string_append (out, " translations");
+      for (guint i = 0; i < m->n_translations; i++)
+        g_string_append_printf (out, " %.2f", tidy (m->translation_residuals[i], 0.01));
+    }
+  if (m->n_rotations)
+    {
+      g_string_append (out, "; rotations");
+      for (guint i = 0; i < m->n_rotations; i++)
+        g_string_append_printf (out, " %.2f", tidy (m->rotation_residuals[i], 0.01));
+    }
+  g_string_append (out, "\n");
+}
+
+static void
+append_header (GString *out, const char *prefix, const QvModeReport *r)
+{
+  const QvModeSet *m = r->modes;
+  g_autofree char *formula = qv_structure_formula (r->structure);
+
+  g_string_append_printf (out, "%squaver %s: normal modes of %s (%" G_GSIZE_FORMAT " atoms)\n",
+                          prefix, QV_VERSION, formula, r->structure->n_atoms);
+  g_string_append_printf (out, "%sprojection: %s; %" G_GSIZE_FORMAT " vibrations", prefix,
+                          projection_description (m), m->n_vibrations);
+  if (m->lowest_only)
+    g_string_append_printf (out, ", the lowest %" G_GSIZE_FORMAT " shown", m->n_modes);
+  g_string_append (out, "\n");
+  if (m->has_hessian)
+    g_string_append_printf (out, "%sHessian: %s, layout %s, units %s, asymmetry %.2g\n", prefix,
+                            r->hessian_source ? r->hessian_source : "(given)",
+                            qv_hessian_layout_name (r->layout),
+                            r->hessian_units ? r->hessian_units : "eV/A^2", m->asymmetry);
+  g_string_append_printf (out, "%smasses: %s; turning points at v = %u; thermal RMS at T = %g K\n",
+                          prefix,
+                          r->mass_model == QV_MASS_AVERAGE ? "standard atomic weights"
+                                                           : "most abundant isotopes",
+                          r->level, r->temperature);
+  append_residuals (out, prefix, m);
+  if (m->has_gradient)
+    g_string_append_printf (out, "%sgradient norm: %.3g eV/A, largest atomic force %.3g eV/A\n",
+                            prefix, m->gradient_norm, m->max_force);
+}
+
+static void
+format_frequency (char *buf, gsize size, const Row *row, int decimals)
+{
+  g_snprintf (buf, size, "%.*f%s", decimals, row->shown, row->imaginary ? "i" : "");
+}
+
+static char *
+format_text (const QvModeReport *r)
+{
+  const QvModeSet *m = r->modes;
+  GString *out = g_string_new (NULL);
+  g_auto(GStrv) warnings = qv_mode_set_warnings (m);
+  const int decimals = r->unit == QV_FREQUENCY_CM1 ? 2 : 4;
+  char qhead[32];
+
+  append_header (out, "# ", r);
+  for (char **w = warnings; *w; w++)
+    g_string_append_printf (out, "warning: %s\n", *w);
+  g_snprintf (qhead, sizeof qhead, "Q_tp(v=%u)", r->level);
+  g_string_append_printf (out, "%5s %12s %9s %11s %10s %9s %5s %9s %11s %6s\n",
+                          "mode", "frequency", "red.mass", "force const", qhead,
+                          "max disp", "atom", "RMS(T)", "moves most", "rot.mix");
+  g_string_append_printf (out, "%5s %12s %9s %11s %10s %9s %5s %9s %11s %6s\n",
+                          "", qv_frequency_unit_name (r->unit), "u", "mdyn/A", "u^1/2 A",
+                          "A", "", "A", "", "%");
+  for (gsize k = 0; k < m->n_modes; k++)
+    {
+      Row row;
+      char freq[40], q[24], d[24], atom[16], rms[24], main_atom[32], mix[16];
+      compute_row (r, k, &row);
+      format_frequency (freq, sizeof freq, &row, decimals);
+      if (row.tp.defined)
+        {
+          g_snprintf (q, sizeof q, "%.4f", row.tp.q);
+          g_snprintf (d, sizeof d, "%.4f", row.tp.max_displacement);
+          atom_name (atom, sizeof atom, r->structure, row.tp.max_atom);
+        }
+      else
+        {
+          g_strlcpy (q, "-", sizeof q);
+          g_strlcpy (d, "-", sizeof d);
+          g_strlcpy (atom, "-", sizeof atom);
+        }
+      if (row.th.defined)
+        g_snprintf (rms, sizeof rms, "%.4f", row.th.max_rms_displacement);
+      else
+        g_strlcpy (rms, "-", sizeof rms);
+      {
+        char name[16];
+        atom_name (name, sizeof name, r->structure, row.main_atom);
+        g_snprintf (main_atom, sizeof main_atom, "%s %3.0f%%", name, 100.0 * row.main_share);
+      }
+      if (row.has_mixing)
+        g_snprintf (mix, sizeof mix, "%.1f", tidy (100.0 * row.mix_rotation, 0.1));
+      else
+        g_strlcpy (mix, "-", sizeof mix);
+      g_string_append_printf (out, "%5" G_GSIZE_FORMAT " %12s %9.4f %11.4f %10s %9s %5s %9s %11s %6s\n",
+                              k + 1, freq, row.reduced_mass, row.force_constant, q, d, atom,
+                              rms, main_atom, mix);
+    }
+  if (qv_mode_set_count_imaginary (m) > 0)
+    g_string_append (out, "# 'i' marks an imaginary mode (negative curvature): it has no turning point\n");
+  g_string_append (out, "# moves most: the atom with the largest share of the mode; rot.mix: rotation "
+                        "the projection removed from the mode\n");
+  return g_string_free (out, FALSE);
+}
+
+static char *
+format_csv (const QvModeReport *r)
+{
+  const QvModeSet *m = r->modes;
+  GString *out = g_string_new (NULL);
+  g_string_append (out, "index,wavenumber_cm-1,imaginary,reduced_mass_u,force_constant_mdyn_per_A,"
+                        "level,turning_point_Q_u^1/2_A,max_displacement_A,max_atom,"
+                        "temperature_K,thermal_Q_rms_u^1/2_A,thermal_max_rms_A,collectivity,"
+                        "translation_mixing,rotation_mixing\n");
+  for (gsize k = 0; k < m->n_modes; k++)
+    {
+      Row row;
+      compute_row (r, k, &row);
+      g_string_append_printf (out, "%" G_GSIZE_FORMAT ",%.6f,%s,%.8g,%.8g,%u,", k + 1,
+                              row.wavenumber, row.imaginary ? "true" : "false",
+                              row.reduced_mass, row.force_constant, r->level);
+      if (row.tp.defined)
+        g_string_append_printf (out, "%.8g,%.8g,%" G_GSIZE_FORMAT ",", row.tp.q,
+                                row.tp.max_displacement, row.tp.max_atom + 1);
+      else
+        g_string_append (out, ",,,");
+      g_string_append_printf (out, "%g,", r->temperature);
+      if (row.th.defined)
+        g_string_append_printf (out, "%.8g,%.8g,", row.th.q_rms, row.th.max_rms_displacement);
+      else
+        g_string_append (out, ",,");
+      g_string_append_printf (out, "%.6f,", row.collectivity);
+      if (row.has_mixing)
+        g_string_append_printf (out, "%.6g,%.6g\n", row.mix_translation, row.mix_rotation);
+      else
+        g_string_append (out, ",\n");
+    }
+  return g_string_free (out, FALSE);
+}
+
+static char *
+format_markdown (const QvModeReport *r)
+{
+  const QvModeSet *m = r->modes;
+  GString *out = g_string_new (NULL);
+  g_auto(GStrv) warnings = qv_mode_set_warnings (m);
+  const int decimals = r->unit == QV_FREQUENCY_CM1 ? 1 : 3;
+
+  append_header (out, "> ", r);
+  for (char **w = warnings; *w; w++)
+    g_string_append_printf (out, "> **warning:** %s\n", *w);
+  g_string_append_printf (out, "\n| mode | frequency (%s) | reduced mass (u) | force constant (mdyn/Å) "
+                               "| Q_tp at v = %u (u^½ Å) | largest displacement (Å) | atom |\n",
+                          qv_frequency_unit_name (r->unit), r->level);
+  g_string_append (out, "|---:|---:|---:|---:|---:|---:|---:|\n");
+  for (gsize k = 0; k < m->n_modes; k++)
+    {
+      Row row;
+      char freq[40];
+      compute_row (r, k, &row);
+      format_frequency (freq, sizeof freq, &row, decimals);
+      g_string_append_printf (out, "| %" G_GSIZE_FORMAT " | %s | %.4f | %.4f | ", k + 1, freq,
+                              row.reduced_mass, row.force_constant);
+      if (row.tp.defined)
+        g_string_append_printf (out, "%.4f | %.4f | %" G_GSIZE_FORMAT " |\n", row.tp.q,
+                                row.tp.max_displacement, row.tp.max_atom + 1);
+      else
+        g_string_append (out, "— | — | — |\n");
+    }
+  return g_string_free (out, FALSE);
+}
+
+static void
+add_double_or_null (JsonBuilder *b, const char *key, gboolean defined, double value)
+{
+  json_builder_set_member_name (b, key);
+  if (defined && isfinite (value))
+    json_builder_add_double_value (b, value);
+  else
+    json_builder_add_null_value (b);
+}
+
+static void
+add_double_array (JsonBuilder *b, const char *key, const double *v, gsize n)
+{
+  json_builder_set_member_name (b, key);
+  json_builder_begin_array (b);
+  for (gsize i = 0; i < n; i++)
+    json_builder_add_double_value (b, v[i]);
+  json_builder_end_array (b);
+}
+
+static char *
+format_json (const QvModeReport *r)
+{
+  const QvModeSet *m = r->modes;
+  g_autoptr(JsonBuilder) b = json_builder_new ();
+  g_autoptr(JsonGenerator) gen = json_generator_new ();
+  g_autoptr(JsonNode) root = NULL;
+  g_autofree char *formula = qv_structure_formula (r->structure);
+  g_autofree double *participation = g_new (double, MAX (m->n_atoms, 1));
+  g_autofree double *cart = r->vectors ? g_new (double, 3 * m->n_atoms) : NULL;
+  g_auto(GStrv) warnings = qv_mode_set_warnings (m);
+  double residuals[6];
+  guint nres = 0;
+
+  json_builder_begin_object (b);
+  json_builder_set_member_name (b, "program");
+  json_builder_add_string_value (b, "quaver " QV_VERSION);
+  json_builder_set_member_name (b, "units");
+  json_builder_begin_object (b);
+  {
+    static const char *units[][2] = {
+      { "wavenumber", "cm^-1" }, { "eigenvalue", "eV/(A^2 u)" }, { "reduced_mass", "u" },
+      { "force_constant", "mdyn/A" }, { "Q", "u^1/2 A" }, { "displacement", "A" },
+      { "energy", "eV" }, { "temperature", "K" }, { "gradient", "eV/A" },
+    };
+    for (gsize i = 0; i < G_N_ELEMENTS (units); i++)
+      {
+        json_builder_set_member_name (b, units[i][0]);
+        json_builder_add_string_value (b, units[i][1]);
+      }
+  }
+  json_builder_end_object (b);
+  json_builder_set_member_name (b, "natoms");
+  json_builder_add_int_value (b, (gint64) r->structure->n_atoms);
+  json_builder_set_member_name (b, "formula");
+  json_builder_add_string_value (b, formula);
+  json_builder_set_member_name (b, "projection");
+  json_builder_add_string_value (b, qv_projection_name (m->projection));
+  json_builder_set_member_name (b, "linear");
+  json_builder_add_boolean_value (b, m->linear);
+  json_builder_set_member_name (b, "masses");
+  json_builder_add_string_value (b, r->mass_model == QV_MASS_AVERAGE ? "average" : "isotopic");
+  if (m->has_hessian)
+    {
+      json_builder_set_member_name (b, "hessian");
+      json_builder_begin_object (b);
+      json_builder_set_member_name (b, "source");
+      json_builder_add_string_value (b, r->hessian_source ? r->hessian_source : "");
+      json_builder_set_member_name (b, "layout");
+      json_builder_add_string_value (b, qv_hessian_layout_name (r->layout));
+      json_builder_set_member_name (b, "units");
+      json_builder_add_string_value (b, r->hessian_units ? r->hessian_units : "eV/A^2");
+      json_builder_set_member_name (b, "asymmetry");
+      json_builder_add_double_value (b, m->asymmetry);
+      json_builder_end_object (b);
+    }
+  if (m->has_gradient)
+    {
+      json_builder_set_member_name (b, "gradient_norm");
+      json_builder_add_double_value (b, m->gradient_norm);
+      json_builder_set_member_name (b, "max_force");
+      json_builder_add_double_value (b, m->max_force);
+    }
+  for (guint i = 0; i < m->n_translations; i++)
+    residuals[nres++] = m->translation_residuals[i];
+  for (guint i = 0; i < m->n_rotations; i++)
+    residuals[nres++] = m->rotation_residuals[i];
+  add_double_array (b, "rigid_body_residuals", residuals, m->has_hessian ? nres : 0);
+  json_builder_set_member_name (b, "rigid_body");
+  json_builder_begin_object (b);
+  add_double_array (b, "translations", m->translation_residuals, m->has_hessian ? m->n_translations : 0);
+  add_double_array (b, "rotations", m->rotation_residuals, m->has_hessian ? m->n_rotations : 0);
+  json_builder_end_object (b);
+  json_builder_set_member_name (b, "warnings");
+  json_builder_begin_array (b);
+  for (char **w = warnings; *w; w++)
+    json_builder_add_string_value (b, *w);
+  json_builder_end_array (b);
+  json_builder_set_member_name (b, "level");
+  json_builder_add_int_value (b, r->level);
+  json_builder_set_member_name (b, "temperature");
+  json_builder_add_double_value (b, r->temperature);
+  json_builder_set_member_name (b, "n_vibrations");
+  json_builder_add_int_value (b, (gint64) m->n_vibrations);
+  json_builder_set_member_name (b, "lowest");
+  if (m->lowest_only)
+    json_builder_add_int_value (b, (gint64) m->n_modes);
+  else
+    json_builder_add_null_value (b);
+
+  json_builder_set_member_name (b, "modes");
+  json_builder_begin_array (b);
+  for (gsize k = 0; k < m->n_modes; k++)
+    {
+      Row row;
+      compute_row (r, k, &row);
+      json_builder_begin_object (b);
+      json_builder_set_member_name (b, "index");
+      json_builder_add_int_value (b, (gint64) k + 1);
+      json_builder_set_member_name (b, "wavenumber");
+      json_builder_add_double_value (b, row.wavenumber);
+      json_builder_set_member_name (b, "imaginary");
+      json_builder_add_boolean_value (b, row.imaginary);
+      json_builder_set_member_name (b, "eigenvalue");
+      json_builder_add_double_value (b, m->eigenvalues[k]);
+      json_builder_set_member_name (b, "reduced_mass");
+      json_builder_add_double_value (b, row.reduced_mass);
+      json_builder_set_member_name (b, "force_constant");
+      json_builder_add_double_value (b, row.force_constant);
+      json_builder_set_member_name (b, "collectivity");
+      json_builder_add_double_value (b, row.collectivity);
+      if (row.has_mixing)
+        {
+          json_builder_set_member_name (b, "rigid_body_mixing");
+          json_builder_begin_object (b);
+          json_builder_set_member_name (b, "translations");
+          json_builder_add_double_value (b, row.mix_translation);
+          json_builder_set_member_name (b, "rotations");
+          json_builder_add_double_value (b, row.mix_rotation);
+          json_builder_end_object (b);
+        }
+      qv_mode_set_participation (m, k, participation);
+      add_double_array (b, "participation", participation, m->n_atoms);
+
+      json_builder_set_member_name (b, "turning_point");
+      json_builder_begin_object (b);
+      json_builder_set_member_name (b, "v");
+      json_builder_add_int_value (b, r->level);
+      add_double_or_null (b, "Q", row.tp.defined, row.tp.q);
+      add_double_or_null (b, "max_displacement", row.tp.defined, row.tp.max_displacement);
+      json_builder_set_member_name (b, "max_atom");
+      if (row.tp.defined)
+        json_builder_add_int_value (b, (gint64) row.tp.max_atom + 1);
+      else
+        json_builder_add_null_value (b);
+      add_double_or_null (b, "energy", row.tp.defined, row.tp.energy);
+      json_builder_end_object (b);
+
+      json_builder_set_member_name (b, "thermal");
+      json_builder_begin_object (b);
+      json_builder_set_member_name (b, "T");
+      json_builder_add_double_value (b, r->temperature);
+      add_double_or_null (b, "Q_rms", row.th.defined, row.th.q_rms);
+      add_double_or_null (b, "max_rms_displacement", row.th.defined, row.th.max_rms_displacement);
+      json_builder_set_member_name (b, "max_atom");
+      if (row.th.defined)
+        json_builder_add_int_value (b, (gint64) row.th.max_atom + 1);
+      else
+        json_builder_add_null_value (b);
+      json_builder_end_object (b);
+
+      if (cart)
+        {
+          qv_mode_set_cartesian (m, k, cart);
+          add_double_array (b, "displacement", cart, 3 * m->n_atoms);
+        }
+      json_builder_end_object (b);
+    }
+  json_builder_end_array (b);
+  json_builder_end_object (b);
+
+  root = json_builder_get_root (b);
+  json_generator_set_root (gen, root);
+  json_generator_set_pretty (gen, TRUE);
+  json_generator_set_indent (gen, 1);
+  {
+    char *text = json_generator_to_data (gen, NULL);
+    char *with_newline = g_strconcat (text, "\n", NULL);
+    g_free (text);
+    return with_newline;
+  }
+}
+
+char *
+qv_mode_table_format (const QvModeReport *report, QvTableFormat format)
+{
+  switch (format)
+    {
+    case QV_TABLE_CSV: return format_csv (report);
+    case QV_TABLE_JSON: return format_json (report);
+    case QV_TABLE_MARKDOWN: return format_markdown (report);
+    case QV_TABLE_TEXT:
+    default: return format_text (report);
+    }
+}
