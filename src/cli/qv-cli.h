@@ -1,0 +1,55 @@
+/* qv-cli.h — shared pieces of the headless commands (private to src/cli).
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#pragma once
+#include <glib.h>
+#include "qv-hessian.h"
+#include "qv-mode-set.h"
+#include "qv-structure.h"
+
+G_BEGIN_DECLS
+
+enum {
+  QV_EXIT_OK = 0,
+  QV_EXIT_USAGE = 1,
+  QV_EXIT_INPUT = 2,
+  QV_EXIT_WRITE = 3,
+};
+
+/* Prints "quaver: message" (and a hint for usage errors) and returns the
+ * exit code that fits the error. */
+int qv_cli_fail (const char *command, GError *error);
+
+/* What a command reads: a geometry with a Hessian, or a bundle. */
+typedef struct {
+  char *geometry_name;          /* as the user gave it ("demo" for --demo) */
+  QvStructure *structure;
+  QvHessian *hessian;           /* eV/Å², or NULL when @modes */
+  QvModeSet *modes;             /* precomputed modes from a bundle */
+  char *hessian_source;
+  char *hessian_units;
+  QvHessianLayout layout;
+  QvMassModel mass_model;
+} QvCliInput;
+
+typedef struct {
+  const char *geometry;         /* path, or NULL with demo */
+  gboolean demo;
+  const char *hessian;
+  const char *hessian_units;
+  const char *hessian_layout;
+  const char *masses;           /* isotopic | average */
+  char **isotopes;              /* ATOM=MASSNUMBER */
+  char **mass_overrides;        /* ATOM=VALUE */
+  gboolean all_modes;           /* refuse, before reading the Hessian, a size
+                                   the all-modes solver cannot take */
+} QvCliInputOptions;
+
+gboolean qv_cli_input_load (QvCliInput *input, const QvCliInputOptions *options, GError **error);
+void qv_cli_input_clear (QvCliInput *input);
+
+/* Progress lines on stderr when it is a terminal. */
+gboolean qv_cli_progress (double fraction, const char *stage, gpointer user_data);
+
+int qv_cmd_modes (int argc, char **argv);
+
+G_END_DECLS
