@@ -22,7 +22,7 @@ print_usage (FILE *out)
 {
   fprintf (out,
            "Usage: quaver COMMAND [OPTION…] [FILE…]\n"
-           "       quaver FILE          open FILE in the desktop app\n"
+           "       quaver FILE          open FILE in the desktop app (not in this build yet)\n"
            "\n"
            "Normal modes from a geometry and its Hessian: frequencies, reduced masses,\n"
            "turning points, rigid-body diagnostics.\n"

@@ -12,10 +12,13 @@ static const char modes_description[] =
   "Solves the harmonic normal modes of GEOMETRY and prints one row per mode:\n"
   "wavenumber (imaginary modes marked 'i'), reduced mass, force constant, the\n"
   "classical turning point Q_tp = sqrt((2v+1) hbar/omega) of level v with the\n"
-  "largest Cartesian displacement it causes and its atom, the thermal RMS\n"
-  "displacement at T, and the collectivity. The header states the units, the\n"
-  "Hessian's layout and units, the projection and the rigid-body residuals;\n"
-  "warnings say when the geometry or the Hessian looks unconverged.\n"
+  "largest Cartesian displacement it causes and its atom, the largest thermal\n"
+  "RMS displacement at T, the atom that moves most (its share of the mode),\n"
+  "and how much rotation the rigid-body projection removed from the mode.\n"
+  "The header states the units, the Hessian's layout and units, the\n"
+  "projection and the rigid-body residuals; warnings say when the geometry or\n"
+  "the Hessian looks unconverged. CSV and JSON add the collectivity, the\n"
+  "participation of every atom and (--vectors) the displacement vectors.\n"
   "\n"
   "GEOMETRY is an XYZ or extended XYZ file (then --hessian and --hessian-units\n"
   "are required) or a Quaver bundle (*.quaver.json) that carries its Hessian.\n"
@@ -78,7 +81,8 @@ qv_cmd_modes (int argc, char **argv)
   };
 
   qv_solve_options_init (&solve);
-  context = g_option_context_new ("GEOMETRY — solve and tabulate normal modes");
+  g_set_prgname ("quaver modes");
+  context = g_option_context_new ("GEOMETRY");
   g_option_context_set_description (context, modes_description);
   g_option_context_add_main_entries (context, entries, NULL);
   if (!g_option_context_parse (context, &argc, &argv, &error))

@@ -5,8 +5,11 @@
 #include <setjmp.h>
 #include <cmocka.h>
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
+#include <lapacke.h>
 #include "qv-error.h"
+#include "qv-rigid-body.h"
 #include "qv-solver.h"
 #include "qv-test-util.h"
 #include "qv-units.h"
@@ -339,6 +342,132 @@ test_bad_input (void **state)
   assert_int_equal (qv_solver_max_full_dimension (), 32766);
 }
 
+/* Rigid-body mixing (qv_rigid_body_mixing) against two independent routes:
+ * (1) its definition, the weight on v_j of the eigenvector of the 2×2
+ *     matrix [[λ, b], [b, μ]] nearest λ, found here by LAPACK dsyev;
+ * (2) physics: an unprojected solve (projection none) of a Hessian that is
+ *     not rotation-invariant puts rotation into the modes; to first order
+ *     the rotation content |V_Rᵀ l|² of each mode equals the predicted
+ *     mixing Σ (b_j/Δ_j)² (Rayleigh–Schrödinger perturbation theory). */
+static void
+test_rigid_mixing (void **state)
+{
+  g_autoptr(QvStructure) s = qvt_random_molecule (10, 51, 3.5);
+  g_autoptr(QvHessian) h = qvt_spring_network (s, 52, 3.0, 5.0, 40.0);
+  g_autoptr(QvModeSet) proj = NULL, none = NULL;
+  QvSolveOptions o;
+  const gsize n = h->n;
+  double b[9];
+  int checked = 0;
+
+  /* soft springs make low modes; a weak external tether on two atoms
+   * breaks rotational invariance (an "unconverged" Hessian) */
+  memset (b, 0, sizeof b);
+  for (gsize i = 0; i < n; i++)
+    for (gsize j = 0; j < n; j++)
+      h->data[i + j * n] *= 0.05;
+  h->data[1 + 1 * n] += 0.02;
+  h->data[(3 * 5 + 2) + (3 * 5 + 2) * n] += 0.015;
+  qv_solve_options_init (&o);
+  proj = qvt_solve_checked (s, h, &o);
+  o.projection = QV_PROJECTION_NONE;
+  none = qvt_solve_checked (s, h, &o);
+  assert_non_null (proj->rigid_mixing);
+  assert_null (none->rigid_mixing);
+
+  {
+    g_autofree double *masses = qv_structure_masses (s);
+    g_autofree double *pos = g_new (double, n);
+    g_autoptr(QvRigidBody) rb = NULL;
+    g_autoptr(QvHessian) k = qv_hessian_copy (h, NULL);
+    double tr[3], rot[3];
+
+    for (gsize a = 0; a < s->n_atoms; a++)
+      memcpy (pos + 3 * a, s->atoms[a].position, sizeof (double) * 3);
+    qv_hessian_symmetrize (k);
+    qv_solver_mass_weight (k->data, s->n_atoms, masses);
+    rb = qv_rigid_body_new (s->n_atoms, pos, masses, QV_PROJECTION_FULL);
+    /* the unprojected K for route (2), before projection destroys it */
+    {
+      g_autoptr(QvHessian) kfull = qv_hessian_copy (k, NULL);
+      qv_rigid_body_project_with_residuals (rb, k->data, tr, rot);
+
+      for (gsize m = 0; m < proj->n_modes; m++)
+        {
+          const double *l = qv_mode_set_vector (proj, m);
+          const double lambda = proj->eigenvalues[m];
+          double mt, mr, expected_r = 0.0, pt = 0.0;
+          double cblk[9], mu[3];
+          qv_rigid_body_mixing (rb, l, lambda, &mt, &mr);
+          assert_true (fabs (mt - proj->rigid_mixing[2 * m]) < 1e-15);
+          assert_true (fabs (mr - proj->rigid_mixing[2 * m + 1]) < 1e-15);
+
+          /* route (1): rotation block eigenbasis, couplings, 2×2 solves */
+          for (int x = 0; x < 3; x++)
+            for (int y = 0; y < 3; y++)
+              {
+                double sum = 0.0;
+                for (gsize i = 0; i < n; i++)
+                  for (gsize j = 0; j < n; j++)
+                    sum += rb->basis[(3 + x) * n + i] * kfull->data[i + j * n] * rb->basis[(3 + y) * n + j];
+                cblk[x + 3 * y] = sum;
+              }
+          assert_int_equal (LAPACKE_dsyev (LAPACK_COL_MAJOR, 'V', 'L', 3, cblk, 3, mu), 0);
+          for (int jj = 0; jj < 3; jj++)
+            {
+              double coupling = 0.0, two[4], w2[2];
+              for (gsize i = 0; i < n; i++)
+                {
+                  double vi = 0.0, kl = 0.0;
+                  for (int x = 0; x < 3; x++)
+                    vi += rb->basis[(3 + x) * n + i] * cblk[x + 3 * jj];
+                  for (gsize j = 0; j < n; j++)
+                    kl += kfull->data[i + j * n] * l[j];
+                  coupling += vi * kl;
+                }
+              two[0] = lambda; two[1] = coupling; two[2] = coupling; two[3] = mu[jj];
+              assert_int_equal (LAPACKE_dsyev (LAPACK_COL_MAJOR, 'V', 'L', 2, two, 2, w2), 0);
+              /* the eigenvector nearest λ: its second component squared */
+              expected_r += fabs (w2[0] - lambda) < fabs (w2[1] - lambda) ? two[1] * two[1] : two[3] * two[3];
+            }
+          assert_true (fabs (mr - MIN (expected_r, 1.0)) < 1e-10 * MAX (1.0, expected_r) + 1e-14);
+
+          /* route (2): rotation content of the matching unprojected mode */
+          if (mr > 1e-6 && mr < 1e-2)
+            {
+              gsize best = 0;
+              double best_overlap = -1.0;
+              for (gsize q = 0; q < none->n_modes; q++)
+                {
+                  double ov = 0.0;
+                  for (gsize i = 0; i < n; i++)
+                    ov += l[i] * qv_mode_set_vector (none, q)[i];
+                  if (fabs (ov) > best_overlap)
+                    {
+                      best_overlap = fabs (ov);
+                      best = q;
+                    }
+                }
+              for (int x = 0; x < 3; x++)
+                {
+                  double ov = 0.0;
+                  for (gsize i = 0; i < n; i++)
+                    ov += rb->basis[(3 + x) * n + i] * qv_mode_set_vector (none, best)[i];
+                  pt += ov * ov;
+                }
+              if (getenv ("QVT_VERBOSE") || fabs (pt - mr) > 0.05 * mr)
+                print_error ("mode %zu: predicted rotation mixing %.4g, unprojected solve %.4g\n",
+                             (size_t) m, mr, pt);
+              assert_true (fabs (pt - mr) <= 0.05 * mr);
+              checked++;
+            }
+        }
+    }
+  }
+  /* the set-up must exercise route (2) */
+  assert_true (checked >= 3);
+}
+
 static gboolean
 cancel_at_solve (double fraction, const char *stage, gpointer data)
 {
@@ -372,6 +501,7 @@ main (void)
     cmocka_unit_test (test_permutation_invariance),
     cmocka_unit_test (test_bad_input),
     cmocka_unit_test (test_cancel),
+    cmocka_unit_test (test_rigid_mixing),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
