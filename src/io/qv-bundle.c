@@ -864,7 +864,7 @@ read_atom (Reader *r, QvStructure *s, gsize i, JsonNode *node, const char *path,
   if ((n = member (atom, "label")) != NULL)
     {
       g_autofree char *where = path_key (path, "label");
-      const char *label;
+      const char *label = NULL;
       if (!read_string (r, n, where, &label))
         return FALSE;
       qv_structure_set_label (s, i, label);
@@ -986,7 +986,7 @@ read_structure (Reader *r, JsonNode *node, JsonNode *masses_node)
     return NULL;
   if (masses_node != NULL)
     {
-      const char *text;
+      const char *text = NULL;
       if (!read_string (r, masses_node, "masses", &text))
         return NULL;
       if (strcmp (text, "isotopic") == 0)
@@ -1331,7 +1331,7 @@ read_hessian (Reader *r, JsonNode *node, gsize n_atoms, char **units_out, char *
     }
   else
     {
-      const char *relative;
+      const char *relative = NULL;
       g_autofree char *resolved = NULL;
       if (!read_string (r, file, "hessian.path", &relative))
         return NULL;
@@ -1478,7 +1478,7 @@ read_bundle (Reader *r, JsonNode *root_node)
   g_autoptr(QvBundle) bundle = g_new0 (QvBundle, 1);
   JsonObject *root;
   JsonNode *n, *hessian, *modes;
-  const char *text;
+  const char *text = NULL;
 
   if (JSON_NODE_TYPE (root_node) != JSON_NODE_OBJECT)
     {
