@@ -147,6 +147,7 @@ static gboolean
 load_bundle (QvCliInput *input, QvBundle *bundle)
 {
   input->structure = g_steal_pointer (&bundle->structure);
+  input->mass_model = bundle->mass_model;
   input->hessian = g_steal_pointer (&bundle->hessian);
   input->modes = g_steal_pointer (&bundle->modes);
   input->hessian_units = g_strdup (bundle->hessian_units);

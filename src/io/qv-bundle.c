@@ -971,7 +971,7 @@ read_forces (Reader *r, QvStructure *s, JsonNode *node)
 }
 
 static QvStructure *
-read_structure (Reader *r, JsonNode *node, JsonNode *masses_node)
+read_structure (Reader *r, JsonNode *node, JsonNode *masses_node, QvMassModel *model_out)
 {
   static const char *const keys[] = { "atoms", "cell", "pbc", "energy", "forces", NULL };
   g_autoptr(QvStructure) s = NULL;
@@ -1046,6 +1046,7 @@ read_structure (Reader *r, JsonNode *node, JsonNode *masses_node)
 
   /* Masses: the model for every atom, then the per-atom overrides. */
   qv_structure_apply_mass_model (s, model);
+  *model_out = model;
   for (gsize i = 0; i < n_atoms; i++)
     {
       g_autoptr(GError) local = NULL;
@@ -1502,7 +1503,7 @@ read_bundle (Reader *r, JsonNode *root_node)
       fail_at (r, AT_MISSING, NULL, "structure", "missing; a bundle needs a structure");
       return NULL;
     }
-  if ((bundle->structure = read_structure (r, n, member (root, "masses"))) == NULL)
+  if ((bundle->structure = read_structure (r, n, member (root, "masses"), &bundle->mass_model)) == NULL)
     return NULL;
   if (bundle->title != NULL && bundle->structure->comment == NULL)
     bundle->structure->comment = g_strdup (bundle->title);

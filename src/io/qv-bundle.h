@@ -17,6 +17,7 @@ G_BEGIN_DECLS
 typedef struct {
   char *title;                 /* optional */
   QvStructure *structure;      /* masses with the bundle's overrides applied */
+  QvMassModel mass_model;      /* the bundle's "masses" (default isotopic) */
   QvHessian *hessian;          /* eV/Å², or NULL when @modes is given */
   char *hessian_units;         /* as written in the bundle */
   char *hessian_path;          /* resolved path when referenced, else NULL */
