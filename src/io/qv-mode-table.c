@@ -1,11 +1,11 @@
 /* qv-mode-table.c
  * SPDX-License-Identifier: GPL-3.0-or-later */
-#include <json-glib/json-glib.h>
 #include <math.h>
 #include <string.h>
 #include "qv-config.h"
 #include "qv-element.h"
 #include "qv-error.h"
+#include "qv-json-writer.h"
 #include "qv-mode-table.h"
 
 gboolean
@@ -276,32 +276,33 @@ format_markdown (const QvModeReport *r)
 }
 
 static void
-add_double_or_null (JsonBuilder *b, const char *key, gboolean defined, double value)
+number_or_null (QvJsonWriter *w, const char *key, gboolean defined, double value)
 {
-  json_builder_set_member_name (b, key);
-  if (defined && isfinite (value))
-    json_builder_add_double_value (b, value);
+  if (defined)
+    qv_json_number (w, key, value);
   else
-    json_builder_add_null_value (b);
+    qv_json_null (w, key);
 }
 
 static void
-add_double_array (JsonBuilder *b, const char *key, const double *v, gsize n)
+atom_or_null (QvJsonWriter *w, const char *key, gboolean defined, gsize atom)
 {
-  json_builder_set_member_name (b, key);
-  json_builder_begin_array (b);
-  for (gsize i = 0; i < n; i++)
-    json_builder_add_double_value (b, v[i]);
-  json_builder_end_array (b);
+  if (defined)
+    qv_json_int (w, key, (gint64) atom + 1);
+  else
+    qv_json_null (w, key);
 }
 
 static char *
 format_json (const QvModeReport *r)
 {
+  static const char *units[][2] = {
+    { "wavenumber", "cm^-1" }, { "eigenvalue", "eV/(A^2 u)" }, { "reduced_mass", "u" },
+    { "force_constant", "mdyn/A" }, { "Q", "u^1/2 A" }, { "displacement", "A" },
+    { "energy", "eV" }, { "temperature", "K" }, { "gradient", "eV/A" },
+  };
   const QvModeSet *m = r->modes;
-  g_autoptr(JsonBuilder) b = json_builder_new ();
-  g_autoptr(JsonGenerator) gen = json_generator_new ();
-  g_autoptr(JsonNode) root = NULL;
+  QvJsonWriter *w = qv_json_writer_new ();
   g_autofree char *formula = qv_structure_formula (r->structure);
   g_autofree double *participation = g_new (double, MAX (m->n_atoms, 1));
   g_autofree double *cart = r->vectors ? g_new (double, 3 * m->n_atoms) : NULL;
@@ -309,163 +310,100 @@ format_json (const QvModeReport *r)
   double residuals[6];
   guint nres = 0;
 
-  json_builder_begin_object (b);
-  json_builder_set_member_name (b, "program");
-  json_builder_add_string_value (b, "quaver " QV_VERSION);
-  json_builder_set_member_name (b, "units");
-  json_builder_begin_object (b);
-  {
-    static const char *units[][2] = {
-      { "wavenumber", "cm^-1" }, { "eigenvalue", "eV/(A^2 u)" }, { "reduced_mass", "u" },
-      { "force_constant", "mdyn/A" }, { "Q", "u^1/2 A" }, { "displacement", "A" },
-      { "energy", "eV" }, { "temperature", "K" }, { "gradient", "eV/A" },
-    };
-    for (gsize i = 0; i < G_N_ELEMENTS (units); i++)
-      {
-        json_builder_set_member_name (b, units[i][0]);
-        json_builder_add_string_value (b, units[i][1]);
-      }
-  }
-  json_builder_end_object (b);
-  json_builder_set_member_name (b, "natoms");
-  json_builder_add_int_value (b, (gint64) r->structure->n_atoms);
-  json_builder_set_member_name (b, "formula");
-  json_builder_add_string_value (b, formula);
-  json_builder_set_member_name (b, "projection");
-  json_builder_add_string_value (b, qv_projection_name (m->projection));
-  json_builder_set_member_name (b, "linear");
-  json_builder_add_boolean_value (b, m->linear);
-  json_builder_set_member_name (b, "masses");
-  json_builder_add_string_value (b, r->mass_model == QV_MASS_AVERAGE ? "average" : "isotopic");
+  qv_json_begin_object (w, NULL);
+  qv_json_string (w, "program", "quaver " QV_VERSION);
+  qv_json_begin_object (w, "units");
+  for (gsize i = 0; i < G_N_ELEMENTS (units); i++)
+    qv_json_string (w, units[i][0], units[i][1]);
+  qv_json_end_object (w);
+  qv_json_int (w, "natoms", (gint64) r->structure->n_atoms);
+  qv_json_string (w, "formula", formula);
+  qv_json_string (w, "projection", qv_projection_name (m->projection));
+  qv_json_bool (w, "linear", m->linear);
+  qv_json_string (w, "masses", r->mass_model == QV_MASS_AVERAGE ? "average" : "isotopic");
   if (m->has_hessian)
     {
-      json_builder_set_member_name (b, "hessian");
-      json_builder_begin_object (b);
-      json_builder_set_member_name (b, "source");
-      json_builder_add_string_value (b, r->hessian_source ? r->hessian_source : "");
-      json_builder_set_member_name (b, "layout");
-      json_builder_add_string_value (b, qv_hessian_layout_name (r->layout));
-      json_builder_set_member_name (b, "units");
-      json_builder_add_string_value (b, r->hessian_units ? r->hessian_units : "eV/A^2");
-      json_builder_set_member_name (b, "asymmetry");
-      json_builder_add_double_value (b, m->asymmetry);
-      json_builder_end_object (b);
+      qv_json_begin_object (w, "hessian");
+      qv_json_string (w, "source", r->hessian_source ? r->hessian_source : "");
+      qv_json_string (w, "layout", qv_hessian_layout_name (r->layout));
+      qv_json_string (w, "units", r->hessian_units ? r->hessian_units : "eV/A^2");
+      qv_json_number (w, "asymmetry", m->asymmetry);
+      qv_json_end_object (w);
     }
   if (m->has_gradient)
     {
-      json_builder_set_member_name (b, "gradient_norm");
-      json_builder_add_double_value (b, m->gradient_norm);
-      json_builder_set_member_name (b, "max_force");
-      json_builder_add_double_value (b, m->max_force);
+      qv_json_number (w, "gradient_norm", m->gradient_norm);
+      qv_json_number (w, "max_force", m->max_force);
     }
   for (guint i = 0; i < m->n_translations; i++)
     residuals[nres++] = m->translation_residuals[i];
   for (guint i = 0; i < m->n_rotations; i++)
     residuals[nres++] = m->rotation_residuals[i];
-  add_double_array (b, "rigid_body_residuals", residuals, m->has_hessian ? nres : 0);
-  json_builder_set_member_name (b, "rigid_body");
-  json_builder_begin_object (b);
-  add_double_array (b, "translations", m->translation_residuals, m->has_hessian ? m->n_translations : 0);
-  add_double_array (b, "rotations", m->rotation_residuals, m->has_hessian ? m->n_rotations : 0);
-  json_builder_end_object (b);
-  json_builder_set_member_name (b, "warnings");
-  json_builder_begin_array (b);
-  for (char **w = warnings; *w; w++)
-    json_builder_add_string_value (b, *w);
-  json_builder_end_array (b);
-  json_builder_set_member_name (b, "level");
-  json_builder_add_int_value (b, r->level);
-  json_builder_set_member_name (b, "temperature");
-  json_builder_add_double_value (b, r->temperature);
-  json_builder_set_member_name (b, "n_vibrations");
-  json_builder_add_int_value (b, (gint64) m->n_vibrations);
-  json_builder_set_member_name (b, "lowest");
+  qv_json_numbers (w, "rigid_body_residuals", residuals, m->has_hessian ? nres : 0);
+  qv_json_begin_object (w, "rigid_body");
+  qv_json_numbers (w, "translations", m->translation_residuals, m->has_hessian ? m->n_translations : 0);
+  qv_json_numbers (w, "rotations", m->rotation_residuals, m->has_hessian ? m->n_rotations : 0);
+  qv_json_end_object (w);
+  qv_json_begin_array (w, "warnings");
+  for (char **s = warnings; *s; s++)
+    qv_json_string (w, NULL, *s);
+  qv_json_end_array (w);
+  qv_json_int (w, "level", r->level);
+  qv_json_number (w, "temperature", r->temperature);
+  qv_json_int (w, "n_vibrations", (gint64) m->n_vibrations);
   if (m->lowest_only)
-    json_builder_add_int_value (b, (gint64) m->n_modes);
+    qv_json_int (w, "lowest", (gint64) m->n_modes);
   else
-    json_builder_add_null_value (b);
+    qv_json_null (w, "lowest");
 
-  json_builder_set_member_name (b, "modes");
-  json_builder_begin_array (b);
+  qv_json_begin_array (w, "modes");
   for (gsize k = 0; k < m->n_modes; k++)
     {
       Row row;
       compute_row (r, k, &row);
-      json_builder_begin_object (b);
-      json_builder_set_member_name (b, "index");
-      json_builder_add_int_value (b, (gint64) k + 1);
-      json_builder_set_member_name (b, "wavenumber");
-      json_builder_add_double_value (b, row.wavenumber);
-      json_builder_set_member_name (b, "imaginary");
-      json_builder_add_boolean_value (b, row.imaginary);
-      json_builder_set_member_name (b, "eigenvalue");
-      json_builder_add_double_value (b, m->eigenvalues[k]);
-      json_builder_set_member_name (b, "reduced_mass");
-      json_builder_add_double_value (b, row.reduced_mass);
-      json_builder_set_member_name (b, "force_constant");
-      json_builder_add_double_value (b, row.force_constant);
-      json_builder_set_member_name (b, "collectivity");
-      json_builder_add_double_value (b, row.collectivity);
+      qv_json_begin_object (w, NULL);
+      qv_json_int (w, "index", (gint64) k + 1);
+      qv_json_number (w, "wavenumber", row.wavenumber);
+      qv_json_bool (w, "imaginary", row.imaginary);
+      qv_json_number (w, "eigenvalue", m->eigenvalues[k]);
+      qv_json_number (w, "reduced_mass", row.reduced_mass);
+      qv_json_number (w, "force_constant", row.force_constant);
+      qv_json_number (w, "collectivity", row.collectivity);
       if (row.has_mixing)
         {
-          json_builder_set_member_name (b, "rigid_body_mixing");
-          json_builder_begin_object (b);
-          json_builder_set_member_name (b, "translations");
-          json_builder_add_double_value (b, row.mix_translation);
-          json_builder_set_member_name (b, "rotations");
-          json_builder_add_double_value (b, row.mix_rotation);
-          json_builder_end_object (b);
+          qv_json_begin_object (w, "rigid_body_mixing");
+          qv_json_number (w, "translations", row.mix_translation);
+          qv_json_number (w, "rotations", row.mix_rotation);
+          qv_json_end_object (w);
         }
       qv_mode_set_participation (m, k, participation);
-      add_double_array (b, "participation", participation, m->n_atoms);
+      qv_json_numbers (w, "participation", participation, m->n_atoms);
 
-      json_builder_set_member_name (b, "turning_point");
-      json_builder_begin_object (b);
-      json_builder_set_member_name (b, "v");
-      json_builder_add_int_value (b, r->level);
-      add_double_or_null (b, "Q", row.tp.defined, row.tp.q);
-      add_double_or_null (b, "max_displacement", row.tp.defined, row.tp.max_displacement);
-      json_builder_set_member_name (b, "max_atom");
-      if (row.tp.defined)
-        json_builder_add_int_value (b, (gint64) row.tp.max_atom + 1);
-      else
-        json_builder_add_null_value (b);
-      add_double_or_null (b, "energy", row.tp.defined, row.tp.energy);
-      json_builder_end_object (b);
+      qv_json_begin_object (w, "turning_point");
+      qv_json_int (w, "v", r->level);
+      number_or_null (w, "Q", row.tp.defined, row.tp.q);
+      number_or_null (w, "max_displacement", row.tp.defined, row.tp.max_displacement);
+      atom_or_null (w, "max_atom", row.tp.defined, row.tp.max_atom);
+      number_or_null (w, "energy", row.tp.defined, row.tp.energy);
+      qv_json_end_object (w);
 
-      json_builder_set_member_name (b, "thermal");
-      json_builder_begin_object (b);
-      json_builder_set_member_name (b, "T");
-      json_builder_add_double_value (b, r->temperature);
-      add_double_or_null (b, "Q_rms", row.th.defined, row.th.q_rms);
-      add_double_or_null (b, "max_rms_displacement", row.th.defined, row.th.max_rms_displacement);
-      json_builder_set_member_name (b, "max_atom");
-      if (row.th.defined)
-        json_builder_add_int_value (b, (gint64) row.th.max_atom + 1);
-      else
-        json_builder_add_null_value (b);
-      json_builder_end_object (b);
+      qv_json_begin_object (w, "thermal");
+      qv_json_number (w, "T", r->temperature);
+      number_or_null (w, "Q_rms", row.th.defined, row.th.q_rms);
+      number_or_null (w, "max_rms_displacement", row.th.defined, row.th.max_rms_displacement);
+      atom_or_null (w, "max_atom", row.th.defined, row.th.max_atom);
+      qv_json_end_object (w);
 
       if (cart)
         {
           qv_mode_set_cartesian (m, k, cart);
-          add_double_array (b, "displacement", cart, 3 * m->n_atoms);
+          qv_json_numbers (w, "displacement", cart, 3 * m->n_atoms);
         }
-      json_builder_end_object (b);
+      qv_json_end_object (w);
     }
-  json_builder_end_array (b);
-  json_builder_end_object (b);
-
-  root = json_builder_get_root (b);
-  json_generator_set_root (gen, root);
-  json_generator_set_pretty (gen, TRUE);
-  json_generator_set_indent (gen, 1);
-  {
-    char *text = json_generator_to_data (gen, NULL);
-    char *with_newline = g_strconcat (text, "\n", NULL);
-    g_free (text);
-    return with_newline;
-  }
+  qv_json_end_array (w);
+  qv_json_end_object (w);
+  return qv_json_writer_finish (w);
 }
 
 char *

@@ -71,6 +71,20 @@ with tempfile.TemporaryDirectory(prefix="qv-misc-") as tmp:
     check(r.returncode == 2 and "--lowest" in r.stderr,
           f"size limit: exit {r.returncode}, stderr {r.stderr!r}")
 
+    # Output strings are escaped: a Hessian file name with a quote, a
+    # backslash and a tab must come back verbatim (RFC 8259 escaping).
+    odd = os.path.join(tmp, 'we"ird\\na\tme.txt')
+    with open(odd, "w") as f:
+        for row in bundle["hessian"]["data"]:
+            f.write(" ".join(str(x) for x in row) + "\n")
+    xyz = os.path.join(tmp, "co.xyz")
+    with open(xyz, "w") as f:
+        f.write("2\ninvented\nC 0 0 0\nO 0 0 1.13\n")
+    r = run("modes", xyz, "--hessian", odd, "--hessian-units", "eV/A^2", "--format", "json")
+    check(r.returncode == 0, f"odd file name: {r.stderr}")
+    if r.returncode == 0:
+        check(json.loads(r.stdout)["hessian"]["source"] == odd, "file name not escaped verbatim")
+
 for args in (["--version"], ["--help"], ["modes", "--help"], ["help", "modes"]):
     r = run(*args)
     check(r.returncode == 0 and r.stdout, f"{args}: exit {r.returncode}")
@@ -78,5 +92,5 @@ for args in (["--version"], ["--help"], ["modes", "--help"], ["help", "modes"]):
 for f in failures:
     print("FAIL:", f, file=sys.stderr)
 print(f"cli-misc: {'FAILED ' + str(len(failures)) if failures else 'all'} checks "
-      "(bundle mass model, size limit before reading, help/version)")
+      "(bundle mass model, size limit before reading, string escaping, help/version)")
 sys.exit(1 if failures else 0)
