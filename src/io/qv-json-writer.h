@@ -25,7 +25,8 @@ void qv_json_number (QvJsonWriter *w, const char *key, double value);
 void qv_json_int (QvJsonWriter *w, const char *key, gint64 value);
 void qv_json_bool (QvJsonWriter *w, const char *key, gboolean value);
 void qv_json_null (QvJsonWriter *w, const char *key);
-/* An array of numbers on one line. */
+/* An array of numbers on one line; arrays longer than 8 use the 17-digit
+ * round-trip spelling rather than the shortest (it is faster). */
 void qv_json_numbers (QvJsonWriter *w, const char *key, const double *values, gsize n);
 
 /* Shortest "%.*g" spelling of @value that reads back exactly; @buf holds
