@@ -15,7 +15,8 @@
  *
  * Prints: generation time; the preparation stages timed one by one
  * (symmetrize, mass weight, rigid-body projection); LAPACKE_dsyevd alone on
- * the prepared matrix (the routine numpy.linalg.eigh calls); the whole
+ * the prepared matrix (the routine numpy.linalg.eigh calls) and, with
+ * --lapack-stages, the steps inside it and inside dsyevr; the whole
  * qv_solve for all modes and with lowest = K, best of R runs each, with the
  * time of every stage of the best run taken from the solver's progress
  * reports. --json adds one JSON line for scripts (compare.py). --write DIR
@@ -30,6 +31,7 @@
 #include <glib.h>
 #include <glib/gstdio.h>
 #include <math.h>
+#include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -48,6 +50,19 @@
 #define MAX_STAGES 16
 
 /* splitmix64 (Steele, Lea & Flood, OOPSLA 2014). */
+/* Benchmarks stop with a message (and exit status 1) when they cannot run. */
+static G_GNUC_NORETURN G_GNUC_PRINTF (1, 2) void
+die (const char *format, ...)
+{
+  va_list args;
+  va_start (args, format);
+  fprintf (stderr, "%s: ", "bench-solve");
+  vfprintf (stderr, format, args);
+  fputc ('\n', stderr);
+  va_end (args);
+  exit (1);
+}
+
 static guint64
 splitmix64 (guint64 *state)
 {
@@ -88,10 +103,10 @@ bench_system_new (gsize n_atoms, QvHessian **hessian_out)
   gsize side = 1;
 
   if (s == NULL)
-    g_error ("%s", error->message);
+    die ("%s", error->message);
   h = qv_hessian_new (n, TRUE, &error);
   if (h == NULL)
-    g_error ("%s", error->message);
+    die ("%s", error->message);
   while (side * side * side < n_atoms)
     side++;
   for (gsize a = 0; a < n_atoms; a++)
@@ -101,7 +116,7 @@ bench_system_new (gsize n_atoms, QvHessian **hessian_out)
         s->atoms[a].position[c] = BENCH_SPACING * (double) cell[c]
                                   + BENCH_JITTER * (2.0 * uniform (&state) - 1.0);
       if (!qv_structure_set_element (s, a, draw_element (&state), &error))
-        g_error ("%s", error->message);
+        die ("%s", error->message);
     }
 
   /* Column-major; the blocks are symmetric, so is the matrix. */
@@ -158,7 +173,7 @@ write_system (const char *dir, const QvStructure *s, const QvHessian *h)
                               buf[0], buf[1], buf[2]);
     }
   if (!g_file_set_contents (xyz_path, xyz->str, (gssize) xyz->len, &error))
-    g_error ("%s", error->message);
+    die ("%s", error->message);
   g_string_free (xyz, TRUE);
 
   /* .npy version 1.0: magic, header length, a dict padded to 64 bytes. */
@@ -169,7 +184,7 @@ write_system (const char *dir, const QvStructure *s, const QvHessian *h)
   g_string_append_c (header, '\n');
   f = fopen (npy_path, "wb");
   if (f == NULL)
-    g_error ("cannot write %s", npy_path);
+    die ("cannot write %s", npy_path);
   {
     const unsigned char magic[8] = { 0x93, 'N', 'U', 'M', 'P', 'Y', 1, 0 };
     const unsigned char len[2] = { header->len & 0xff, header->len >> 8 };
@@ -178,7 +193,7 @@ write_system (const char *dir, const QvStructure *s, const QvHessian *h)
         || fwrite (header->str, 1, header->len, f) != header->len
         || fwrite (h->data, sizeof (double), h->n * h->n, f) != h->n * h->n
         || fclose (f) != 0)
-      g_error ("cannot write %s", npy_path);
+      die ("cannot write %s", npy_path);
   }
   g_string_free (header, TRUE);
   printf ("wrote %s and %s\n", xyz_path, npy_path);
@@ -230,14 +245,14 @@ time_solve (const QvStructure *s, const QvHessian *h, gsize lowest, guint repeat
       gint64 start, end;
 
       if (copy == NULL)
-        g_error ("%s", error->message);
+        die ("%s", error->message);
       qv_solve_options_init (&options);
       options.lowest = lowest;
       start = g_get_monotonic_time ();
       modes = qv_solve (s, copy, &options, &progress, &error);
       end = g_get_monotonic_time ();
       if (modes == NULL)
-        g_error ("qv_solve: %s", error->message);
+        die ("qv_solve: %s", error->message);
       if ((end - start) * 1e-6 < t->best)
         {
           t->best = (end - start) * 1e-6;
@@ -289,13 +304,15 @@ int
 main (int argc, char **argv)
 {
   gint64 n_atoms = 1000, repeat = 3, lowest = 20;
-  gboolean json = FALSE, skip_lapack = FALSE;
+  gboolean json = FALSE, skip_lapack = FALSE, lapack_stages = FALSE;
   char *write_dir = NULL;
   GOptionEntry entries[] = {
     { "atoms", 'n', 0, G_OPTION_ARG_INT64, &n_atoms, "Number of atoms (default 1000)", "N" },
     { "repeat", 'r', 0, G_OPTION_ARG_INT64, &repeat, "Runs of each solve; the best counts (default 3)", "R" },
     { "lowest", 'k', 0, G_OPTION_ARG_INT64, &lowest, "Modes of the range solve (default 20)", "K" },
     { "no-lapack", 0, 0, G_OPTION_ARG_NONE, &skip_lapack, "Skip timing dsyevd alone", NULL },
+    { "lapack-stages", 0, 0, G_OPTION_ARG_NONE, &lapack_stages,
+      "Also time the steps inside dsyevd and dsyevr (dsytrd, dstedc, dstemr, dormtr)", NULL },
     { "json", 0, 0, G_OPTION_ARG_NONE, &json, "Also print one JSON line of the figures", NULL },
     { "write", 'w', 0, G_OPTION_ARG_FILENAME, &write_dir,
       "Write DIR/bench-N.xyz and DIR/bench-N.npy, then exit", "DIR" },
@@ -313,6 +330,7 @@ main (int argc, char **argv)
   SolveTiming full, part;
   double t_gen, t_sym, t_mass, t_rb, t_proj, t_lapack = 0.0;
   double translations[3], rotations[3];
+  double t_trd = -1, t_stedc = -1, t_ormtr_all = -1, t_stemr = -1, t_ormtr_m = -1;
   const char *threads_env = g_getenv ("OPENBLAS_NUM_THREADS");
   gint64 start;
   gsize n;
@@ -352,7 +370,7 @@ main (int argc, char **argv)
   /* The preparation stages one by one, on a copy, as qv_solve does them. */
   k = qv_hessian_copy (h, &error);
   if (k == NULL)
-    g_error ("%s", error->message);
+    die ("%s", error->message);
   masses = qv_structure_masses (s);
   positions = g_new (double, n);
   for (gsize a = 0; a < (gsize) n_atoms; a++)
@@ -385,15 +403,71 @@ main (int argc, char **argv)
           g_autoptr(QvHessian) a = qv_hessian_copy (k, &error);
           lapack_int info;
           if (a == NULL)
-            g_error ("%s", error->message);
+            die ("%s", error->message);
           start = g_get_monotonic_time ();
           info = LAPACKE_dsyevd (LAPACK_COL_MAJOR, 'V', 'L', (lapack_int) n, a->data,
                                  (lapack_int) n, w);
           t_lapack = MIN (t_lapack, seconds_since (start));
           if (info != 0)
-            g_error ("dsyevd: INFO = %d", (int) info);
+            die ("dsyevd: INFO = %d", (int) info);
         }
       printf ("  %-32s %8.3f s\n", "LAPACKE_dsyevd alone (best)", t_lapack);
+    }
+
+  /* Inside the LAPACK drivers: the reduction to tridiagonal form that both
+   * dsyevd and dsyevr start with, then what each does after it. */
+  if (lapack_stages)
+    {
+      g_autoptr(QvHessian) a = qv_hessian_copy (k, &error);
+      g_autofree double *d = g_new (double, n);
+      g_autofree double *e = g_new (double, n);
+      g_autofree double *tau = g_new (double, n);
+      g_autofree double *d2 = g_new (double, n);
+      g_autofree double *e2 = g_new (double, n);
+      g_autofree double *wr = g_new (double, n);
+      g_autofree double *zl = NULL;
+      g_autofree lapack_int *isuppz = g_new (lapack_int, 2 * n);
+      g_autoptr(QvHessian) zf = qv_hessian_new (n, FALSE, &error);
+      const lapack_int m = (lapack_int) MIN ((gsize) lowest + 8, n);
+      lapack_int found = 0;
+      lapack_logical tryrac = 1;
+
+      if (a == NULL || zf == NULL)
+        die ("%s", error->message);
+      zl = g_new (double, n * (gsize) m);
+      start = g_get_monotonic_time ();
+      if (LAPACKE_dsytrd (LAPACK_COL_MAJOR, 'L', (lapack_int) n, a->data, (lapack_int) n, d, e, tau) != 0)
+        die ("dsytrd failed");
+      t_trd = seconds_since (start);
+      memcpy (d2, d, sizeof (double) * n);
+      memcpy (e2, e, sizeof (double) * n);
+      start = g_get_monotonic_time ();
+      if (LAPACKE_dstedc (LAPACK_COL_MAJOR, 'I', (lapack_int) n, d2, e2, zf->data, (lapack_int) n) != 0)
+        die ("dstedc failed");
+      t_stedc = seconds_since (start);
+      start = g_get_monotonic_time ();
+      if (LAPACKE_dormtr (LAPACK_COL_MAJOR, 'L', 'L', 'N', (lapack_int) n, (lapack_int) n, a->data,
+                          (lapack_int) n, tau, zf->data, (lapack_int) n) != 0)
+        die ("dormtr failed");
+      t_ormtr_all = seconds_since (start);
+      memcpy (d2, d, sizeof (double) * n);
+      memcpy (e2, e, sizeof (double) * n);
+      start = g_get_monotonic_time ();
+      if (LAPACKE_dstemr (LAPACK_COL_MAJOR, 'V', 'I', (lapack_int) n, d2, e2, 0.0, 0.0, 1, m, &found,
+                          wr, zl, (lapack_int) n, m, isuppz, &tryrac) != 0)
+        die ("dstemr failed");
+      t_stemr = seconds_since (start);
+      start = g_get_monotonic_time ();
+      if (LAPACKE_dormtr (LAPACK_COL_MAJOR, 'L', 'L', 'N', (lapack_int) n, m, a->data, (lapack_int) n,
+                          tau, zl, (lapack_int) n) != 0)
+        die ("dormtr failed");
+      t_ormtr_m = seconds_since (start);
+      printf ("  inside the drivers (one run each):\n");
+      printf ("    %-40s %8.3f s\n", "dsytrd (reduction to tridiagonal)", t_trd);
+      printf ("    %-40s %8.3f s\n", "dstedc, all (dsyevd's next step)", t_stedc);
+      printf ("    %-40s %8.3f s\n", "dormtr, all vectors (dsyevd's last)", t_ormtr_all);
+      printf ("    %-34s %5d %8.3f s\n", "dstemr, lowest (dsyevr's next step)", (int) m, t_stemr);
+      printf ("    %-34s %5d %8.3f s\n", "dormtr, vectors (dsyevr's last)", (int) m, t_ormtr_m);
     }
 
   time_solve (s, h, 0, (guint) repeat, &full);
@@ -422,6 +496,9 @@ main (int argc, char **argv)
                               n_atoms, n, repeat, lowest, openblas_get_num_threads (),
                               openblas_get_config (), t_gen, t_sym, t_mass, t_rb, t_proj,
                               skip_lapack ? -1.0 : t_lapack);
+      g_string_append_printf (out, ", \"dsytrd_s\": %.6f, \"dstedc_s\": %.6f, \"dormtr_all_s\": %.6f"
+                              ", \"dstemr_s\": %.6f, \"dormtr_lowest_s\": %.6f",
+                              t_trd, t_stedc, t_ormtr_all, t_stemr, t_ormtr_m);
       json_stages (out, "full", &full);
       json_stages (out, "lowest", &part);
       g_string_append (out, "}");

@@ -57,6 +57,9 @@ def parse_args():
     p.add_argument('--quaver', default=os.environ.get('QUAVER'))
     p.add_argument('--bench-solve', required=True)
     p.add_argument('--bench-read', required=True)
+    p.add_argument('--wait-quiet', type=float, default=0.0, metavar='SECONDS',
+                   help='before each round wait up to SECONDS for the CPUs to be idle '
+                        '(>= 90%% over 3 s); for measuring on a shared machine')
     p.add_argument('--workdir', default=None,
                    help='keep the generated files here (reused when present); '
                         'default: a temporary directory, removed afterwards')
@@ -102,7 +105,9 @@ def best_of(fn, repeat):
 def make_system(workdir, atoms):
     stem = os.path.join(workdir, 'bench-%d' % atoms)
     xyz, npy, txt = stem + '.xyz', stem + '.npy', stem + '.txt'
-    if not (os.path.exists(xyz) and os.path.exists(npy)):
+    # (Re)made when missing or older than the bench-solve that makes them.
+    if not (os.path.exists(xyz) and os.path.exists(npy)) or \
+            os.path.getmtime(npy) < os.path.getmtime(ARGS.bench_solve):
         run([ARGS.bench_solve, '--atoms', str(atoms), '--write', workdir])
     if not os.path.exists(txt) or os.path.getmtime(txt) < os.path.getmtime(npy):
         t0 = time.perf_counter()
@@ -191,6 +196,43 @@ def peak_rss_run(cmd):
     return wall, rss, how
 
 
+def cpu_jiffies():
+    """(busy, total) jiffies of all CPUs from /proc/stat."""
+    with open('/proc/stat') as f:
+        v = [int(x) for x in f.readline().split()[1:]]
+    idle = v[3] + v[4]
+    return sum(v[:8]) - idle, sum(v[:8])
+
+
+class OthersMeter:
+    """Share of the machine's CPU time used by other processes between start()
+    and stop(): system-wide busy time from /proc/stat minus this process and
+    its waited-for children (os.times)."""
+
+    def start(self):
+        self.j0, self.t0 = cpu_jiffies(), os.times()
+        return self
+
+    def stop(self):
+        j1, t1 = cpu_jiffies(), os.times()
+        hz = os.sysconf('SC_CLK_TCK')
+        busy = (j1[0] - self.j0[0]) / hz
+        total = (j1[1] - self.j0[1]) / hz
+        own = sum(t1[:4]) - sum(self.t0[:4])
+        self.share = max(0.0, busy - own) / total if total > 0 else 0.0
+
+
+def wait_quiet(limit):
+    deadline = time.monotonic() + limit
+    while time.monotonic() < deadline:
+        b0 = cpu_jiffies()
+        time.sleep(3)
+        b1 = cpu_jiffies()
+        if b1[1] > b0[1] and (b1[0] - b0[0]) / (b1[1] - b0[1]) < 0.10:
+            return True
+    return False
+
+
 def verdict(ok):
     return 'PASS' if ok else 'MISS'
 
@@ -230,14 +272,17 @@ def measure(workdir, R):
     # machine hits both sides alike; the best of the rounds counts.
     eigh_t, bs_runs, full_cli, low_cli, read_runs, loadtxt_t = [], [], [], [], [], []
     doc_full = doc_low = None
+    others = []
     for rnd in range(R):
+        quiet = wait_quiet(ARGS.wait_quiet) if ARGS.wait_quiet > 0 else None
+        meter = OthersMeter().start()
         t0 = time.perf_counter()
         w_np, _ = np.linalg.eigh(Kpp)
         eigh_t.append(time.perf_counter() - t0)
         del _
 
         out = run([ARGS.bench_solve, '--atoms', str(ARGS.atoms), '--repeat', '1',
-                   '--lowest', str(ARGS.lowest), '--json']).stdout
+                   '--lowest', str(ARGS.lowest), '--lapack-stages', '--json']).stdout
         if rnd == 0:
             log(out.rstrip())
         bs_runs.append(json_lines(out)[0])
@@ -260,13 +305,17 @@ def measure(workdir, R):
         loadtxt_t.append(time.perf_counter() - t0)
         loadtxt_same = bool(np.array_equal(A, H))
         del A
+        meter.stop()
+        others.append(meter.share)
         bsr = bs_runs[-1]
         log('round %d: eigh %.3f s | qv_solve all %.3f s, lowest %.3f s, dsyevd %.3f s | '
             'quaver modes all %.3f s %.1f MiB, lowest %.3f s %.1f MiB | read text %.3f s, '
-            'loadtxt %.3f s | load %.2f'
+            'loadtxt %.3f s | other processes used %.0f%% of the CPUs%s'
             % (rnd + 1, eigh_t[-1], bsr['full']['best_s'], bsr['lowest']['best_s'],
                bsr['dsyevd_s'], full_cli[-1][0], full_cli[-1][1], low_cli[-1][0],
-               low_cli[-1][1], read_runs[-1][0]['best_s'], loadtxt_t[-1], os.getloadavg()[0]))
+               low_cli[-1][1], read_runs[-1][0]['best_s'], loadtxt_t[-1], 100 * meter.share,
+               '' if quiet is None else ' (started quiet)' if quiet else
+               ' (started without a quiet moment)'))
     w_np = w_np[:n - rank]
     del Kpp
 
@@ -329,9 +378,19 @@ def measure(workdir, R):
     log('(memory ratio column: peak RSS / matrix size of %.2f MiB)' % matrix_mib)
     log('')
     log('context (not targets):')
+    log('  per round: qv_solve all / eigh %s; qv_solve all / lowest %s; loadtxt / quaver text %s'
+        % (', '.join('%.3f' % (b['full']['best_s'] / e) for b, e in zip(bs_runs, eigh_t)),
+           ', '.join('%.2f' % (b['full']['best_s'] / b['lowest']['best_s']) for b in bs_runs),
+           ', '.join('%.1f' % (t / r[0]['best_s']) for t, r in zip(loadtxt_t, read_runs))))
     log('  dsyevd alone (bench-solve)               %.3f s; qv_solve all / dsyevd = %.3f'
         % (t_dsyevd, full / t_dsyevd))
     log('  preparation (symmetrize+mass weight+projection, bench-solve) %.3f s' % prep)
+    stage = {k: min(b[k] for b in bs_runs) for k in
+             ('dsytrd_s', 'dstedc_s', 'dormtr_all_s', 'dstemr_s', 'dormtr_lowest_s')}
+    log('  inside LAPACK (bench-solve --lapack-stages): dsytrd %.3f s, then for all modes '
+        'dstedc %.3f s + dormtr %.3f s, for the lowest %d+8 dstemr %.3f s + dormtr %.3f s'
+        % (stage['dsytrd_s'], stage['dstedc_s'], stage['dormtr_all_s'], ARGS.lowest,
+           stage['dstemr_s'], stage['dormtr_lowest_s']))
     log('  quaver modes end to end (.npy, json), all  %.3f s; / numpy eigh = %.3f'
         % (full_wall, full_wall / t_eigh))
     log('  quaver modes end to end (.npy, json), --lowest %d  %.3f s; all / lowest = %.2f'
@@ -346,9 +405,11 @@ def measure(workdir, R):
         % (agree_full, agree_low))
     log('  peak RSS measured with %s; times are wall clock (time.perf_counter, '
         'g_get_monotonic_time)' % rss_how)
-    log('  load average (1 min) %.2f at the start, %.2f at the end%s'
-        % (load_start, load_end, '' if max(load_start, load_end) < 0.5 else
-           ': other work was running, the figures may be slow and noisy'))
+    log('  other processes used %s of the CPUs during the rounds; load average %.2f at the '
+        'start, %.2f at the end%s'
+        % (', '.join('%.0f%%' % (100 * x) for x in others), load_start, load_end,
+           '' if min(others) < 0.05 else
+           ': no round ran alone, the figures may be slow and noisy'))
     log('  the full-solve and --lowest targets are compared on qv_solve alone (bench-solve); '
         'the text target on qv_hessian_read_file alone (bench-read); memory on the command')
     return 0
