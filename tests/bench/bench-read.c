@@ -24,37 +24,11 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include "bench-util.h"
 #include "qv-hessian-file.h"
 
 #define BENCH_SEED 0x2EADULL
 
-/* Benchmarks stop with a message (and exit status 1) when they cannot run. */
-static G_GNUC_NORETURN G_GNUC_PRINTF (1, 2) void
-die (const char *format, ...)
-{
-  va_list args;
-  va_start (args, format);
-  fprintf (stderr, "%s: ", "bench-read");
-  vfprintf (stderr, format, args);
-  fputc ('\n', stderr);
-  va_end (args);
-  exit (1);
-}
-
-static guint64
-splitmix64 (guint64 *state)
-{
-  guint64 z = (*state += 0x9E3779B97F4A7C15ULL);
-  z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9ULL;
-  z = (z ^ (z >> 27)) * 0x94D049BB133111EBULL;
-  return z ^ (z >> 31);
-}
-
-static double
-uniform (guint64 *state)
-{
-  return (double) (splitmix64 (state) >> 11) * 0x1.0p-53;
-}
 
 /* Symmetric, magnitudes from about 30 down to 1e-6 eV/Å² as in a molecular
  * Hessian, both signs. Row-major and column-major are the same. */
@@ -66,7 +40,7 @@ random_symmetric (gsize n)
   for (gsize j = 0; j < n; j++)
     for (gsize i = j; i < n; i++)
       {
-        const double v = (2.0 * uniform (&state) - 1.0) * 30.0 * pow (10.0, -6.0 * uniform (&state));
+        const double v = (2.0 * bench_uniform (&state) - 1.0) * 30.0 * pow (10.0, -6.0 * bench_uniform (&state));
         a[i + j * n] = a[j + i * n] = v;
       }
   return a;
@@ -86,12 +60,12 @@ write_files (const char *dir, gsize n, char **text_path, char **npy_path)
   /* The "C" locale is in effect (no setlocale): '.' is the decimal point. */
   f = fopen (*text_path, "w");
   if (f == NULL)
-    die ("cannot write %s", *text_path);
+    bench_die ("cannot write %s", *text_path);
   for (gsize i = 0; i < n; i++)
     for (gsize j = 0; j < n; j++)
       fprintf (f, j + 1 < n ? "%.16e " : "%.16e\n", a[i + j * n]);
   if (fclose (f) != 0)
-    die ("cannot write %s", *text_path);
+    bench_die ("cannot write %s", *text_path);
 
   g_string_append_printf (header, "{'descr': '<f8', 'fortran_order': False, 'shape': (%"
                           G_GSIZE_FORMAT ", %" G_GSIZE_FORMAT "), }", n, n);
@@ -104,7 +78,7 @@ write_files (const char *dir, gsize n, char **text_path, char **npy_path)
   if (f == NULL || fwrite (magic, 1, 8, f) != 8 || fwrite (len, 1, 2, f) != 2
       || fwrite (header->str, 1, header->len, f) != header->len
       || fwrite (a, sizeof (double), n * n, f) != n * n || fclose (f) != 0)
-    die ("cannot write %s", *npy_path);
+    bench_die ("cannot write %s", *npy_path);
   g_string_free (header, TRUE);
 }
 
@@ -144,7 +118,7 @@ main (int argc, char **argv)
       gint64 start = g_get_monotonic_time ();
       tmpdir = g_dir_make_tmp ("quaver-bench-read-XXXXXX", &error);
       if (tmpdir == NULL)
-        die ("%s", error->message);
+        bench_die ("%s", error->message);
       write_files (tmpdir, 3 * (gsize) n_atoms, &text_path, &npy_path);
       printf ("bench-read: wrote a %" G_GINT64_FORMAT "×%" G_GINT64_FORMAT " matrix as text and .npy in %.2f s\n",
               3 * n_atoms, 3 * n_atoms, (g_get_monotonic_time () - start) * 1e-6);

@@ -35,6 +35,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include "bench-util.h"
 #include "qv-element.h"
 #include "qv-hessian.h"
 #include "qv-rigid-body.h"
@@ -49,34 +50,6 @@
 #define BENCH_R0 1.6
 #define MAX_STAGES 16
 
-/* splitmix64 (Steele, Lea & Flood, OOPSLA 2014). */
-/* Benchmarks stop with a message (and exit status 1) when they cannot run. */
-static G_GNUC_NORETURN G_GNUC_PRINTF (1, 2) void
-die (const char *format, ...)
-{
-  va_list args;
-  va_start (args, format);
-  fprintf (stderr, "%s: ", "bench-solve");
-  vfprintf (stderr, format, args);
-  fputc ('\n', stderr);
-  va_end (args);
-  exit (1);
-}
-
-static guint64
-splitmix64 (guint64 *state)
-{
-  guint64 z = (*state += 0x9E3779B97F4A7C15ULL);
-  z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9ULL;
-  z = (z ^ (z >> 27)) * 0x94D049BB133111EBULL;
-  return z ^ (z >> 31);
-}
-
-static double
-uniform (guint64 *state)
-{
-  return (double) (splitmix64 (state) >> 11) * 0x1.0p-53;
-}
 
 static double
 seconds_since (gint64 start)
@@ -87,7 +60,7 @@ seconds_since (gint64 start)
 static guint
 draw_element (guint64 *state)
 {
-  const double u = uniform (state);
+  const double u = bench_uniform (state);
   return u < 0.50 ? 1 : u < 0.82 ? 6 : u < 0.90 ? 7 : u < 0.99 ? 8 : 16;
 }
 
@@ -103,10 +76,10 @@ bench_system_new (gsize n_atoms, QvHessian **hessian_out)
   gsize side = 1;
 
   if (s == NULL)
-    die ("%s", error->message);
+    bench_die ("%s", error->message);
   h = qv_hessian_new (n, TRUE, &error);
   if (h == NULL)
-    die ("%s", error->message);
+    bench_die ("%s", error->message);
   while (side * side * side < n_atoms)
     side++;
   for (gsize a = 0; a < n_atoms; a++)
@@ -114,9 +87,9 @@ bench_system_new (gsize n_atoms, QvHessian **hessian_out)
       const gsize cell[3] = { a % side, (a / side) % side, a / (side * side) };
       for (int c = 0; c < 3; c++)
         s->atoms[a].position[c] = BENCH_SPACING * (double) cell[c]
-                                  + BENCH_JITTER * (2.0 * uniform (&state) - 1.0);
+                                  + BENCH_JITTER * (2.0 * bench_uniform (&state) - 1.0);
       if (!qv_structure_set_element (s, a, draw_element (&state), &error))
-        die ("%s", error->message);
+        bench_die ("%s", error->message);
     }
 
   /* Column-major; the blocks are symmetric, so is the matrix. */
@@ -173,7 +146,7 @@ write_system (const char *dir, const QvStructure *s, const QvHessian *h)
                               buf[0], buf[1], buf[2]);
     }
   if (!g_file_set_contents (xyz_path, xyz->str, (gssize) xyz->len, &error))
-    die ("%s", error->message);
+    bench_die ("%s", error->message);
   g_string_free (xyz, TRUE);
 
   /* .npy version 1.0: magic, header length, a dict padded to 64 bytes. */
@@ -184,7 +157,7 @@ write_system (const char *dir, const QvStructure *s, const QvHessian *h)
   g_string_append_c (header, '\n');
   f = fopen (npy_path, "wb");
   if (f == NULL)
-    die ("cannot write %s", npy_path);
+    bench_die ("cannot write %s", npy_path);
   {
     const unsigned char magic[8] = { 0x93, 'N', 'U', 'M', 'P', 'Y', 1, 0 };
     const unsigned char len[2] = { header->len & 0xff, header->len >> 8 };
@@ -193,7 +166,7 @@ write_system (const char *dir, const QvStructure *s, const QvHessian *h)
         || fwrite (header->str, 1, header->len, f) != header->len
         || fwrite (h->data, sizeof (double), h->n * h->n, f) != h->n * h->n
         || fclose (f) != 0)
-      die ("cannot write %s", npy_path);
+      bench_die ("cannot write %s", npy_path);
   }
   g_string_free (header, TRUE);
   printf ("wrote %s and %s\n", xyz_path, npy_path);
@@ -245,14 +218,14 @@ time_solve (const QvStructure *s, const QvHessian *h, gsize lowest, guint repeat
       gint64 start, end;
 
       if (copy == NULL)
-        die ("%s", error->message);
+        bench_die ("%s", error->message);
       qv_solve_options_init (&options);
       options.lowest = lowest;
       start = g_get_monotonic_time ();
       modes = qv_solve (s, copy, &options, &progress, &error);
       end = g_get_monotonic_time ();
       if (modes == NULL)
-        die ("qv_solve: %s", error->message);
+        bench_die ("qv_solve: %s", error->message);
       if ((end - start) * 1e-6 < t->best)
         {
           t->best = (end - start) * 1e-6;
@@ -370,7 +343,7 @@ main (int argc, char **argv)
   /* The preparation stages one by one, on a copy, as qv_solve does them. */
   k = qv_hessian_copy (h, &error);
   if (k == NULL)
-    die ("%s", error->message);
+    bench_die ("%s", error->message);
   masses = qv_structure_masses (s);
   positions = g_new (double, n);
   for (gsize a = 0; a < (gsize) n_atoms; a++)
@@ -403,13 +376,13 @@ main (int argc, char **argv)
           g_autoptr(QvHessian) a = qv_hessian_copy (k, &error);
           lapack_int info;
           if (a == NULL)
-            die ("%s", error->message);
+            bench_die ("%s", error->message);
           start = g_get_monotonic_time ();
           info = LAPACKE_dsyevd (LAPACK_COL_MAJOR, 'V', 'L', (lapack_int) n, a->data,
                                  (lapack_int) n, w);
           t_lapack = MIN (t_lapack, seconds_since (start));
           if (info != 0)
-            die ("dsyevd: INFO = %d", (int) info);
+            bench_die ("dsyevd: INFO = %d", (int) info);
         }
       printf ("  %-32s %8.3f s\n", "LAPACKE_dsyevd alone (best)", t_lapack);
     }
@@ -433,34 +406,34 @@ main (int argc, char **argv)
       lapack_logical tryrac = 1;
 
       if (a == NULL || zf == NULL)
-        die ("%s", error->message);
+        bench_die ("%s", error->message);
       zl = g_new (double, n * (gsize) m);
       start = g_get_monotonic_time ();
       if (LAPACKE_dsytrd (LAPACK_COL_MAJOR, 'L', (lapack_int) n, a->data, (lapack_int) n, d, e, tau) != 0)
-        die ("dsytrd failed");
+        bench_die ("dsytrd failed");
       t_trd = seconds_since (start);
       memcpy (d2, d, sizeof (double) * n);
       memcpy (e2, e, sizeof (double) * n);
       start = g_get_monotonic_time ();
       if (LAPACKE_dstedc (LAPACK_COL_MAJOR, 'I', (lapack_int) n, d2, e2, zf->data, (lapack_int) n) != 0)
-        die ("dstedc failed");
+        bench_die ("dstedc failed");
       t_stedc = seconds_since (start);
       start = g_get_monotonic_time ();
       if (LAPACKE_dormtr (LAPACK_COL_MAJOR, 'L', 'L', 'N', (lapack_int) n, (lapack_int) n, a->data,
                           (lapack_int) n, tau, zf->data, (lapack_int) n) != 0)
-        die ("dormtr failed");
+        bench_die ("dormtr failed");
       t_ormtr_all = seconds_since (start);
       memcpy (d2, d, sizeof (double) * n);
       memcpy (e2, e, sizeof (double) * n);
       start = g_get_monotonic_time ();
       if (LAPACKE_dstemr (LAPACK_COL_MAJOR, 'V', 'I', (lapack_int) n, d2, e2, 0.0, 0.0, 1, m, &found,
                           wr, zl, (lapack_int) n, m, isuppz, &tryrac) != 0)
-        die ("dstemr failed");
+        bench_die ("dstemr failed");
       t_stemr = seconds_since (start);
       start = g_get_monotonic_time ();
       if (LAPACKE_dormtr (LAPACK_COL_MAJOR, 'L', 'L', 'N', (lapack_int) n, m, a->data, (lapack_int) n,
                           tau, zl, (lapack_int) n) != 0)
-        die ("dormtr failed");
+        bench_die ("dormtr failed");
       t_ormtr_m = seconds_since (start);
       printf ("  inside the drivers (one run each):\n");
       printf ("    %-40s %8.3f s\n", "dsytrd (reduction to tridiagonal)", t_trd);
