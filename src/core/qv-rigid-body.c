@@ -255,10 +255,11 @@ block_mixing (const QvRigidBody *rb, const double *l, double lambda, int off, in
     }
   for (int j = 0; j < m; j++)
     {
-      const double delta = lambda - mu[j];
+      const double delta = fabs (lambda - mu[j]);
       const double root = sqrt (delta * delta + 4.0 * b[j] * b[j]);
+      /* ½(1 − |Δ|/r) written without the cancellation: 2b²/(r(r + |Δ|)) */
       if (root > 0.0)
-        total += 0.5 * (1.0 - fabs (delta) / root);
+        total += 2.0 * b[j] * b[j] / (root * (root + delta));
     }
   return MIN (total, 1.0);
 }

@@ -255,9 +255,10 @@ format_markdown (const QvModeReport *r)
   for (char **w = warnings; *w; w++)
     g_string_append_printf (out, "> **warning:** %s\n", *w);
   g_string_append_printf (out, "\n| mode | frequency (%s) | reduced mass (u) | force constant (mdyn/Å) "
-                               "| Q_tp at v = %u (u^½ Å) | largest displacement (Å) | atom |\n",
+                               "| Q_tp at v = %u (u^½ Å) | largest displacement (Å) | atom "
+                               "| moves most | rotation removed (%%) |\n",
                           qv_frequency_unit_name (r->unit), r->level);
-  g_string_append (out, "|---:|---:|---:|---:|---:|---:|---:|\n");
+  g_string_append (out, "|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n");
   for (gsize k = 0; k < m->n_modes; k++)
     {
       Row row;
@@ -267,10 +268,22 @@ format_markdown (const QvModeReport *r)
       g_string_append_printf (out, "| %" G_GSIZE_FORMAT " | %s | %.4f | %.4f | ", k + 1, freq,
                               row.reduced_mass, row.force_constant);
       if (row.tp.defined)
-        g_string_append_printf (out, "%.4f | %.4f | %" G_GSIZE_FORMAT " |\n", row.tp.q,
-                                row.tp.max_displacement, row.tp.max_atom + 1);
+        {
+          char atom[16];
+          atom_name (atom, sizeof atom, r->structure, row.tp.max_atom);
+          g_string_append_printf (out, "%.4f | %.4f | %s | ", row.tp.q, row.tp.max_displacement, atom);
+        }
       else
-        g_string_append (out, "— | — | — |\n");
+        g_string_append (out, "— | — | — | ");
+      {
+        char name[16];
+        atom_name (name, sizeof name, r->structure, row.main_atom);
+        g_string_append_printf (out, "%s (%.0f %%) | ", name, 100.0 * row.main_share);
+      }
+      if (row.has_mixing)
+        g_string_append_printf (out, "%.1f |\n", tidy (100.0 * row.mix_rotation, 0.1));
+      else
+        g_string_append (out, "— |\n");
     }
   return g_string_free (out, FALSE);
 }

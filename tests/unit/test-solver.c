@@ -430,7 +430,9 @@ test_rigid_mixing (void **state)
               /* the eigenvector nearest λ: its second component squared */
               expected_r += fabs (w2[0] - lambda) < fabs (w2[1] - lambda) ? two[1] * two[1] : two[3] * two[3];
             }
-          assert_true (fabs (mr - MIN (expected_r, 1.0)) < 1e-10 * MAX (1.0, expected_r) + 1e-14);
+          /* relative: tiny mixings must not cancel to zero */
+          assert_true (fabs (mr - MIN (expected_r, 1.0)) <= 1e-6 * expected_r);
+          assert_true (mr > 0.0);
 
           /* route (2): rotation content of the matching unprojected mode */
           if (mr > 1e-6 && mr < 1e-2)
@@ -468,6 +470,31 @@ test_rigid_mixing (void **state)
   assert_true (checked >= 3);
 }
 
+/* A weak coupling b between a mode (λ = 1) and one rotation (μ = 0) mixes
+ * them by b²(1 − 2b² + …) (the two-level closed form): for b = 1e-10 the
+ * weight 1e-20 must come out, not cancel to 0. */
+static void
+test_rigid_mixing_weak (void **state)
+{
+  g_autoptr(QvStructure) s = qvt_random_molecule (3, 61, 2.0);
+  g_autofree double *masses = qv_structure_masses (s);
+  double pos[9], l[9] = { 0 }, t, r;
+  g_autoptr(QvRigidBody) rb = NULL;
+  const double b = 1e-10;
+
+  for (gsize a = 0; a < 3; a++)
+    memcpy (pos + 3 * a, s->atoms[a].position, sizeof (double) * 3);
+  rb = qv_rigid_body_new (3, pos, masses, QV_PROJECTION_FULL);
+  assert_int_equal (qv_rigid_body_rank (rb), 6);
+  l[4] = 1.0;
+  rb->kv = g_new0 (double, 9 * 6);
+  rb->kv[3 * 9 + 4] = b;            /* first rotation column: (KV)ᵀl = b */
+  memset (rb->c, 0, sizeof rb->c);  /* VᵀKV = 0: μ = 0 */
+  qv_rigid_body_mixing (rb, l, 1.0, &t, &r);
+  assert_true (t == 0.0);
+  assert_true (fabs (r - b * b) <= 1e-6 * b * b);
+}
+
 static gboolean
 cancel_at_solve (double fraction, const char *stage, gpointer data)
 {
@@ -502,6 +529,7 @@ main (void)
     cmocka_unit_test (test_bad_input),
     cmocka_unit_test (test_cancel),
     cmocka_unit_test (test_rigid_mixing),
+    cmocka_unit_test (test_rigid_mixing_weak),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
