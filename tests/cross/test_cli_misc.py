@@ -85,6 +85,24 @@ with tempfile.TemporaryDirectory(prefix="qv-misc-") as tmp:
     if r.returncode == 0:
         check(json.loads(r.stdout)["hessian"]["source"] == odd, "file name not escaped verbatim")
 
+    # Forces from extended XYZ: gradient_norm = |F| and max_force = the
+    # largest atomic |F_a| (definitions, checked with NumPy), and a force
+    # above 0.025 eV/A (common practice for a converged optimisation) warns.
+    import numpy as np
+    forces = np.array([[0.03, -0.04, 0.0], [-0.03, 0.04, 0.0]])
+    fx = os.path.join(tmp, "co-forces.xyz")
+    with open(fx, "w") as f:
+        f.write("2\nProperties=species:S:1:pos:R:3:forces:R:3 note=invented\n")
+        f.write("C 0 0 0 %r %r %r\n" % tuple(forces[0]))
+        f.write("O 0 0 1.13 %r %r %r\n" % tuple(forces[1]))
+    r = run("modes", fx, "--hessian", odd, "--hessian-units", "eV/A^2", "--format", "json")
+    check(r.returncode == 0, f"forces: {r.stderr}")
+    if r.returncode == 0:
+        doc = json.loads(r.stdout)
+        check(abs(doc["gradient_norm"] - np.linalg.norm(forces)) < 1e-12, "gradient_norm")
+        check(abs(doc["max_force"] - np.linalg.norm(forces, axis=1).max()) < 1e-12, "max_force")
+        check(any("force" in w for w in doc["warnings"]), f"no force warning: {doc['warnings']}")
+
 for args in (["--version"], ["--help"], ["modes", "--help"], ["help", "modes"]):
     r = run(*args)
     check(r.returncode == 0 and r.stdout, f"{args}: exit {r.returncode}")
@@ -92,5 +110,5 @@ for args in (["--version"], ["--help"], ["modes", "--help"], ["help", "modes"]):
 for f in failures:
     print("FAIL:", f, file=sys.stderr)
 print(f"cli-misc: {'FAILED ' + str(len(failures)) if failures else 'all'} checks "
-      "(bundle mass model, size limit before reading, string escaping, help/version)")
+      "(bundle mass model, size limit before reading, string escaping, forces, help/version)")
 sys.exit(1 if failures else 0)
