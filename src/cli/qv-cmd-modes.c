@@ -45,7 +45,7 @@ qv_cmd_modes (int argc, char **argv)
   g_autoptr(QvModeSet) modes = NULL;
   g_autofree char *document = NULL;
   char *projection = NULL, *format = NULL, *output = NULL, *unit = NULL;
-  char *hessian = NULL, *units = NULL, *layout = NULL, *masses = NULL;
+  char *hessian = NULL, *units = NULL, *layout = NULL, *masses = NULL, *method = NULL;
   char **isotopes = NULL, **mass_overrides = NULL;
   gint64 lowest = 0, level = 0;
   double temperature = 298.15;
@@ -62,6 +62,8 @@ qv_cmd_modes (int argc, char **argv)
     { "project", 'p', 0, G_OPTION_ARG_STRING, &projection,
       "Rigid-body motion to remove: full (default), translations, none", "WHAT" },
     { "lowest", 'k', 0, G_OPTION_ARG_INT64, &lowest, "Solve only the lowest K modes (faster)", "K" },
+    { "lowest-method", 0, 0, G_OPTION_ARG_STRING, &method,
+      "How --lowest solves: auto (default), lapack (dsyevr), lanczos (shift-invert, checked, falls back to lapack)", "HOW" },
     { "level", 'v', 0, G_OPTION_ARG_INT64, &level, "Vibrational level v of the turning points (default 0)", "V" },
     { "temperature", 'T', 0, G_OPTION_ARG_DOUBLE, &temperature,
       "Temperature of the thermal RMS amplitude in K (default 298.15)", "T" },
@@ -101,7 +103,8 @@ qv_cmd_modes (int argc, char **argv)
     }
   if ((projection && !qv_projection_parse (projection, &solve.projection, &error))
       || (format && !qv_table_format_parse (format, &table_format, &error))
-      || (unit && !qv_frequency_unit_parse (unit, &report.unit, &error)))
+      || (unit && !qv_frequency_unit_parse (unit, &report.unit, &error))
+      || (method && !qv_lowest_method_parse (method, &solve.lowest_method, &error)))
     {
       status = qv_cli_fail ("modes", error);
       goto out;
@@ -169,7 +172,7 @@ qv_cmd_modes (int argc, char **argv)
 out:
   qv_cli_input_clear (&input);
   g_free (projection); g_free (format); g_free (output); g_free (unit);
-  g_free (hessian); g_free (units); g_free (layout); g_free (masses);
+  g_free (hessian); g_free (units); g_free (layout); g_free (masses); g_free (method);
   g_strfreev (isotopes); g_strfreev (mass_overrides);
   return status;
 }

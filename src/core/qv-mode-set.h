@@ -34,6 +34,8 @@ typedef struct {
   gboolean has_gradient;
   double gradient_norm;        /* eV/Å, from the structure's forces */
   gboolean lowest_only;        /* only the lowest n_modes were solved */
+  const char *eigensolver;     /* static: "dsyevd", "dsyevr", "lanczos", or
+                                  NULL for precomputed modes */
   double max_force;            /* eV/Å, largest atomic force (has_gradient) */
   double *rigid_mixing;        /* 2 × n_modes: [translation, rotation] weight
                                   of rigid-body motion the projection removed

@@ -8,6 +8,7 @@
 #include <string.h>
 #include "qv-canonical.h"
 #include "qv-error.h"
+#include "qv-lanczos.h"
 #include "qv-rigid-body.h"
 #include "qv-solver.h"
 #include "qv-units.h"
@@ -23,6 +24,33 @@ qv_solve_options_init (QvSolveOptions *options)
   memset (options, 0, sizeof *options);
   options->projection = QV_PROJECTION_FULL;
   options->degeneracy_tolerance = QV_SOLVE_DEFAULT_DEGENERACY;
+}
+
+const char *
+qv_lowest_method_name (QvLowestMethod method)
+{
+  switch (method)
+    {
+    case QV_LOWEST_AUTO: return "auto";
+    case QV_LOWEST_LAPACK: return "lapack";
+    case QV_LOWEST_LANCZOS: return "lanczos";
+    default: return "?";
+    }
+}
+
+gboolean
+qv_lowest_method_parse (const char *text, QvLowestMethod *method, GError **error)
+{
+  for (int i = QV_LOWEST_AUTO; i <= QV_LOWEST_LANCZOS; i++)
+    if (text && g_ascii_strcasecmp (text, qv_lowest_method_name ((QvLowestMethod) i)) == 0)
+      {
+        *method = (QvLowestMethod) i;
+        return TRUE;
+      }
+  g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
+               "unknown method '%s' for the lowest modes; accepted: auto, lapack, lanczos",
+               text ? text : "");
+  return FALSE;
 }
 
 gsize
@@ -218,6 +246,7 @@ qv_solve (const QvStructure *structure, QvHessian *hessian,
   double *w = NULL, *vectors = NULL;
   gsize r, n_vib, n_modes, m_solved;
   gboolean lowest_only;
+  const char *eigensolver = "dsyevd";
   QvModeSet *modes;
 
   if (options == NULL)
@@ -288,9 +317,23 @@ qv_solve (const QvStructure *structure, QvHessian *hessian,
     }
   else
     {
+      gboolean lanczos;
       m_solved = MIN (n_modes + RANGE_EXTRA, n_vib);
       w = g_new (double, m_solved);
-      vectors = solve_lowest (hessian->data, n, m_solved, w, error);
+      lanczos = options->lowest_method == QV_LOWEST_LANCZOS
+                || (options->lowest_method == QV_LOWEST_AUTO
+                    && n >= QV_LANCZOS_MIN_DIMENSION && m_solved * 20 <= n);
+      eigensolver = "dsyevr";
+      if (lanczos)
+        {
+          vectors = g_try_malloc (sizeof (double) * n * m_solved);
+          if (vectors && qv_lanczos_lowest (hessian->data, n, m_solved, w, vectors))
+            eigensolver = "lanczos";
+          else
+            g_clear_pointer (&vectors, g_free);
+        }
+      if (vectors == NULL)
+        vectors = solve_lowest (hessian->data, n, m_solved, w, error);
       if (vectors == NULL)
         goto fail;
       g_clear_pointer (&hessian->data, g_free);
@@ -333,6 +376,7 @@ qv_solve (const QvStructure *structure, QvHessian *hessian,
   modes->has_hessian = TRUE;
   modes->asymmetry = asymmetry;
   modes->lowest_only = lowest_only;
+  modes->eigensolver = eigensolver;
   if (structure->forces)
     {
       modes->has_gradient = TRUE;

@@ -9,11 +9,26 @@
 
 G_BEGIN_DECLS
 
+typedef enum {
+  QV_LOWEST_AUTO,              /* Lanczos for large matrices, else LAPACK */
+  QV_LOWEST_LAPACK,            /* dsyevr with an index range */
+  QV_LOWEST_LANCZOS,           /* shift-invert block Lanczos (qv-lanczos.h),
+                                  falling back to dsyevr if it cannot prove
+                                  its result */
+} QvLowestMethod;
+
+const char *qv_lowest_method_name (QvLowestMethod method);
+gboolean qv_lowest_method_parse (const char *text, QvLowestMethod *method, GError **error);
+
 typedef struct {
   QvProjection projection;
   gsize lowest;                /* 0: all modes (dsyevd); k: lowest k (dsyevr) */
   double degeneracy_tolerance; /* relative to max|λ|; 0 picks the default */
+  QvLowestMethod lowest_method;
 } QvSolveOptions;
+
+/* AUTO picks Lanczos from this dimension up (below it LAPACK is as fast). */
+#define QV_LANCZOS_MIN_DIMENSION 1200
 
 #define QV_SOLVE_DEFAULT_DEGENERACY 1e-6
 

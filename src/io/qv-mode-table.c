@@ -124,6 +124,8 @@ append_header (GString *out, const char *prefix, const QvModeReport *r)
                           projection_description (m), m->n_vibrations);
   if (m->lowest_only)
     g_string_append_printf (out, ", the lowest %" G_GSIZE_FORMAT " shown", m->n_modes);
+  if (m->eigensolver)
+    g_string_append_printf (out, " (eigensolver: %s)", m->eigensolver);
   g_string_append (out, "\n");
   if (m->has_hessian)
     g_string_append_printf (out, "%sHessian: %s, layout %s, units %s, asymmetry %.2g\n", prefix,
@@ -364,6 +366,7 @@ format_json (const QvModeReport *r)
   qv_json_int (w, "level", r->level);
   qv_json_number (w, "temperature", r->temperature);
   qv_json_int (w, "n_vibrations", (gint64) m->n_vibrations);
+  qv_json_string (w, "eigensolver", m->eigensolver);
   if (m->lowest_only)
     qv_json_int (w, "lowest", (gint64) m->n_modes);
   else
