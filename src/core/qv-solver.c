@@ -341,8 +341,8 @@ qv_solve (const QvStructure *structure, QvHessian *hessian,
   qv_hessian_free (hessian);
   hessian = NULL;
 
-  if (!qv_progress_report (progress, 0.95, "making eigenvectors canonical", NULL))
-    { /* past the point of no return: finish */ }
+  /* past the point of no return: a cancel request here is ignored */
+  qv_progress_report (progress, 0.95, "making eigenvectors canonical", NULL);
   for (gsize i = 0; i < m_solved; i++)
     max_abs = MAX (max_abs, fabs (w[i]));
   tol = (options->degeneracy_tolerance > 0 ? options->degeneracy_tolerance

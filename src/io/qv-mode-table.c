@@ -41,7 +41,7 @@ typedef struct {
 } Row;
 
 static void
-compute_row (const QvModeReport *r, gsize k, Row *row)
+compute_row (const QvModeReport *r, gsize k, Row *row, double *participation)
 {
   const QvModeSet *m = r->modes;
   row->wavenumber = qv_mode_set_wavenumber (m, k);
@@ -52,15 +52,13 @@ compute_row (const QvModeReport *r, gsize k, Row *row)
   row->collectivity = qv_mode_set_collectivity (m, k);
   qv_mode_set_turning_point (m, k, r->level, &row->tp);
   qv_mode_set_thermal (m, k, r->temperature, &row->th);
-  {
-    g_autofree double *p = g_new (double, MAX (m->n_atoms, 1));
-    qv_mode_set_participation (m, k, p);
-    row->main_atom = 0;
-    for (gsize a = 1; a < m->n_atoms; a++)
-      if (p[a] > p[row->main_atom])
-        row->main_atom = a;
-    row->main_share = p[row->main_atom];
-  }
+  /* @participation (n_atoms) keeps the shares for the caller */
+  qv_mode_set_participation (m, k, participation);
+  row->main_atom = 0;
+  for (gsize a = 1; a < m->n_atoms; a++)
+    if (participation[a] > participation[row->main_atom])
+      row->main_atom = a;
+  row->main_share = participation[row->main_atom];
   row->has_mixing = qv_mode_set_rigid_mixing (m, k, &row->mix_translation, &row->mix_rotation);
 }
 
@@ -152,6 +150,7 @@ format_frequency (char *buf, gsize size, const Row *row, int decimals)
 static char *
 format_text (const QvModeReport *r)
 {
+  g_autofree double *participation = g_new (double, MAX (r->modes->n_atoms, 1));
   const QvModeSet *m = r->modes;
   GString *out = g_string_new (NULL);
   g_auto(GStrv) warnings = qv_mode_set_warnings (m);
@@ -172,7 +171,7 @@ format_text (const QvModeReport *r)
     {
       Row row;
       char freq[40], q[24], d[24], atom[16], rms[24], main_atom[32], mix[16];
-      compute_row (r, k, &row);
+      compute_row (r, k, &row, participation);
       format_frequency (freq, sizeof freq, &row, decimals);
       if (row.tp.defined)
         {
@@ -213,6 +212,7 @@ format_text (const QvModeReport *r)
 static char *
 format_csv (const QvModeReport *r)
 {
+  g_autofree double *participation = g_new (double, MAX (r->modes->n_atoms, 1));
   const QvModeSet *m = r->modes;
   GString *out = g_string_new (NULL);
   g_string_append (out, "index,wavenumber_cm-1,imaginary,reduced_mass_u,force_constant_mdyn_per_A,"
@@ -222,7 +222,7 @@ format_csv (const QvModeReport *r)
   for (gsize k = 0; k < m->n_modes; k++)
     {
       Row row;
-      compute_row (r, k, &row);
+      compute_row (r, k, &row, participation);
       g_string_append_printf (out, "%" G_GSIZE_FORMAT ",%.6f,%s,%.8g,%.8g,%u,", k + 1,
                               row.wavenumber, row.imaginary ? "true" : "false",
                               row.reduced_mass, row.force_constant, r->level);
@@ -248,6 +248,7 @@ format_csv (const QvModeReport *r)
 static char *
 format_markdown (const QvModeReport *r)
 {
+  g_autofree double *participation = g_new (double, MAX (r->modes->n_atoms, 1));
   const QvModeSet *m = r->modes;
   GString *out = g_string_new (NULL);
   g_auto(GStrv) warnings = qv_mode_set_warnings (m);
@@ -265,7 +266,7 @@ format_markdown (const QvModeReport *r)
     {
       Row row;
       char freq[40];
-      compute_row (r, k, &row);
+      compute_row (r, k, &row, participation);
       format_frequency (freq, sizeof freq, &row, decimals);
       g_string_append_printf (out, "| %" G_GSIZE_FORMAT " | %s | %.4f | %.4f | ", k + 1, freq,
                               row.reduced_mass, row.force_constant);
@@ -376,7 +377,7 @@ format_json (const QvModeReport *r)
   for (gsize k = 0; k < m->n_modes; k++)
     {
       Row row;
-      compute_row (r, k, &row);
+      compute_row (r, k, &row, participation);
       qv_json_begin_object (w, NULL);
       qv_json_int (w, "index", (gint64) k + 1);
       qv_json_number (w, "wavenumber", row.wavenumber);
@@ -392,7 +393,6 @@ format_json (const QvModeReport *r)
           qv_json_number (w, "rotations", row.mix_rotation);
           qv_json_end_object (w);
         }
-      qv_mode_set_participation (m, k, participation);
       qv_json_numbers (w, "participation", participation, m->n_atoms);
 
       qv_json_begin_object (w, "turning_point");

@@ -14,6 +14,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <cmocka.h>
+#include "qv-io-test.h"
 
 #include <glib.h>
 #include <glib/gstdio.h>
@@ -418,12 +419,7 @@ expect_text_error (const char *text, gsize n, QvHessianLayout layout, const char
   QvHessian *h = qv_hessian_read_text (text, strlen (text), "t.txt", n, layout, &error);
 
   assert_null (h);
-  assert_non_null (error);
-  if (!g_str_has_prefix (error->message, where) || strstr (error->message, fragment) == NULL)
-    print_error ("message: %s\nwanted: %s … %s\n", error->message, where, fragment);
-  assert_true (g_error_matches (error, QV_ERROR, QV_ERROR_INPUT));
-  assert_true (g_str_has_prefix (error->message, where));
-  assert_non_null (strstr (error->message, fragment));
+  qvt_assert_input_error (error, where, fragment);
 }
 
 static void

@@ -12,6 +12,7 @@
 #include <math.h>
 #include <string.h>
 #include <cmocka.h>
+#include "qv-io-test.h"
 
 #include <glib.h>
 #include "qv-element.h"
@@ -59,12 +60,7 @@ expect_error (const char *text, const char *where, const char *fragment)
   GPtrArray *frames = qv_xyz_read_data (text, strlen (text), "t.xyz", &error);
 
   assert_null (frames);
-  assert_non_null (error);
-  if (!g_str_has_prefix (error->message, where) || strstr (error->message, fragment) == NULL)
-    print_error ("message: %s\nwanted: %s … %s\n", error->message, where, fragment);
-  assert_true (g_error_matches (error, QV_ERROR, QV_ERROR_INPUT));
-  assert_true (g_str_has_prefix (error->message, where));
-  assert_non_null (strstr (error->message, fragment));
+  qvt_assert_input_error (error, where, fragment);
 }
 
 static void
