@@ -2,7 +2,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #pragma once
 #include <glib.h>
-#include "qv-hessian.h"
+#include "qv-input.h"
 #include "qv-mode-set.h"
 #include "qv-structure.h"
 
@@ -19,18 +19,8 @@ enum {
  * exit code that fits the error. */
 int qv_cli_fail (const char *command, GError *error);
 
-/* What a command reads: a geometry with a Hessian, or a bundle. */
-typedef struct {
-  char *geometry_name;          /* as the user gave it ("demo" for --demo) */
-  QvStructure *structure;
-  QvHessian *hessian;           /* eV/Å², or NULL when @modes */
-  QvModeSet *modes;             /* precomputed modes from a bundle */
-  char *hessian_source;
-  char *hessian_units;
-  QvHessianLayout layout;
-  QvMassModel mass_model;
-} QvCliInput;
-
+/* What a command reads: a geometry with a Hessian, or a bundle, with the
+ * mass options applied. */
 typedef struct {
   const char *geometry;         /* path, or NULL with demo */
   gboolean demo;
@@ -44,8 +34,7 @@ typedef struct {
                                    the all-modes solver cannot take */
 } QvCliInputOptions;
 
-gboolean qv_cli_input_load (QvCliInput *input, const QvCliInputOptions *options, GError **error);
-void qv_cli_input_clear (QvCliInput *input);
+QvInput *qv_cli_input_load (const QvCliInputOptions *options, GError **error);
 
 /* Progress lines on stderr when it is a terminal. */
 gboolean qv_cli_progress (double fraction, const char *stage, gpointer user_data);

@@ -39,7 +39,7 @@ qv_cmd_modes (int argc, char **argv)
   g_autoptr(GOptionContext) context = NULL;
   g_autoptr(GError) error = NULL;
   QvCliInputOptions io = { 0 };
-  QvCliInput input = { 0 };
+  g_autoptr(QvInput) input = NULL;
   QvSolveOptions solve;
   QvProgress progress = { qv_cli_progress, NULL };
   g_autoptr(QvModeSet) modes = NULL;
@@ -128,16 +128,17 @@ qv_cmd_modes (int argc, char **argv)
   io.isotopes = isotopes;
   io.mass_overrides = mass_overrides;
   io.all_modes = lowest == 0;
-  if (!qv_cli_input_load (&input, &io, &error))
+  input = qv_cli_input_load (&io, &error);
+  if (input == NULL)
     {
       status = qv_cli_fail ("modes", error);
       goto out;
     }
 
-  if (input.hessian)
+  if (input->hessian)
     {
       solve.lowest = (gsize) lowest;
-      modes = qv_solve (input.structure, g_steal_pointer (&input.hessian), &solve, &progress, &error);
+      modes = qv_solve (input->structure, g_steal_pointer (&input->hessian), &solve, &progress, &error);
       if (modes == NULL)
         {
           status = qv_cli_fail ("modes", error);
@@ -145,17 +146,17 @@ qv_cmd_modes (int argc, char **argv)
         }
     }
   else
-    modes = g_steal_pointer (&input.modes);
+    modes = g_steal_pointer (&input->modes);
 
-  report.structure = input.structure;
+  report.structure = input->structure;
   report.modes = modes;
   report.level = (guint) level;
   report.temperature = temperature;
   report.vectors = vectors;
-  report.hessian_source = input.hessian_source;
-  report.hessian_units = input.hessian_units;
-  report.layout = input.layout;
-  report.mass_model = input.mass_model;
+  report.hessian_source = input->hessian_source;
+  report.hessian_units = input->hessian_units;
+  report.layout = input->layout;
+  report.mass_model = input->mass_model;
   document = qv_mode_table_format (&report, table_format);
 
   if (output)
@@ -170,7 +171,6 @@ qv_cmd_modes (int argc, char **argv)
     }
 
 out:
-  qv_cli_input_clear (&input);
   g_free (projection); g_free (format); g_free (output); g_free (unit);
   g_free (hessian); g_free (units); g_free (layout); g_free (masses); g_free (method);
   g_strfreev (isotopes); g_strfreev (mass_overrides);

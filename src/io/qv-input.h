@@ -1,0 +1,44 @@
+/* qv-input.h — what a front end works on: a geometry with its Hessian, a
+ * bundle, or the built-in demo, read and converted to eV/Å².
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#pragma once
+#include <glib.h>
+#include "qv-hessian.h"
+#include "qv-mode-set.h"
+#include "qv-structure.h"
+
+G_BEGIN_DECLS
+
+/* The demo bundle's path inside the GResource that front ends link. */
+#define QV_INPUT_DEMO_RESOURCE "/org/quaverlab/Quaver/examples/demo.quaver.json"
+
+typedef struct {
+  char *name;                   /* as the user gave it ("demo" for the demo) */
+  QvStructure *structure;
+  QvHessian *hessian;           /* eV/Å², or NULL when @modes */
+  QvModeSet *modes;             /* precomputed modes from a bundle */
+  char *hessian_source;
+  char *hessian_units;
+  QvHessianLayout layout;
+  QvMassModel mass_model;
+  guint n_frames;               /* frames in the geometry file; the first is used */
+} QvInput;
+
+typedef struct {
+  const char *geometry;         /* path, or NULL with demo */
+  gboolean demo;
+  const char *hessian;          /* path; required unless @geometry is a bundle */
+  const char *hessian_units;    /* required with @hessian: never guessed */
+  const char *hessian_layout;   /* NULL: detected */
+  gboolean all_modes;           /* refuse, before reading the Hessian, a size
+                                   the all-modes solver cannot take */
+} QvInputOptions;
+
+/* TRUE when @path names a bundle (*.json) rather than a geometry. */
+gboolean qv_input_is_bundle (const char *path);
+/* Reads everything; errors carry file:line:column and say what to pass. */
+QvInput *qv_input_load (const QvInputOptions *options, GError **error);
+void qv_input_free (QvInput *input);
+G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvInput, qv_input_free)
+
+G_END_DECLS
