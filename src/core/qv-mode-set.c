@@ -250,6 +250,22 @@ qv_mode_set_turning_point (const QvModeSet *modes, gsize k, guint v, QvTurningPo
   tp->max_displacement = qv_mode_set_max_displacement (modes, k, tp->q, &tp->max_atom);
 }
 
+double
+qv_mode_set_display_amplitude (const QvModeSet *modes, gsize k, guint v, double multiple,
+                               gboolean *from_turning_point)
+{
+  QvTurningPoint tp;
+  double unit;
+
+  qv_mode_set_turning_point (modes, k, v, &tp);
+  if (from_turning_point)
+    *from_turning_point = tp.defined;
+  if (tp.defined)
+    return multiple * tp.q;
+  unit = qv_mode_set_max_displacement (modes, k, 1.0, NULL);
+  return unit > 0.0 ? multiple * QV_DISPLAY_FALLBACK_DISPLACEMENT / unit : 0.0;
+}
+
 void
 qv_mode_set_thermal (const QvModeSet *modes, gsize k, double temperature,
                      QvThermalAmplitude *th)

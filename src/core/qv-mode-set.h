@@ -89,6 +89,18 @@ typedef struct {
 void qv_mode_set_turning_point (const QvModeSet *modes, gsize k, guint v,
                                 QvTurningPoint *tp);
 
+/* Largest atomic displacement (Å) used to show a mode that has no turning
+ * point (imaginary or zero): visible, yet small against bond lengths
+ * (common practice for viewing such modes). */
+#define QV_DISPLAY_FALLBACK_DISPLACEMENT 0.25
+
+/* The Q (u^½ Å) that shows mode k at @multiple times its classical turning
+ * point at level @v; for a mode without one, the Q whose largest atomic
+ * displacement is @multiple × QV_DISPLAY_FALLBACK_DISPLACEMENT. Sets
+ * @from_turning_point to say which (may be NULL). */
+double qv_mode_set_display_amplitude (const QvModeSet *modes, gsize k, guint v,
+                                      double multiple, gboolean *from_turning_point);
+
 typedef struct {
   double temperature;          /* K */
   gboolean defined;

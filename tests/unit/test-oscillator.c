@@ -7,6 +7,7 @@
 #include <setjmp.h>
 #include <cmocka.h>
 #include <math.h>
+#include "qv-mode-set.h"
 #include "qv-oscillator.h"
 #include "qv-units.h"
 
@@ -86,12 +87,49 @@ test_thermal (void **state)
     }
 }
 
+/* The amplitude the app animates with: a multiple of the closed-form turning
+ * point above, or a fixed largest displacement for an imaginary mode. A
+ * diatomic-like pair of masses 1 and 4 u with the mode vector along x. */
+static void
+test_display_amplitude (void **state)
+{
+  const double masses[2] = { 1.0, 4.0 };
+  double *eigenvalues = g_new (double, 2);
+  double *vectors = g_new0 (double, 12);
+  const double s5 = sqrt (5.0);
+  g_autoptr(QvModeSet) modes = NULL;
+  gboolean from_tp = FALSE;
+  double q;
+
+  (void) state;
+  eigenvalues[0] = -0.5;   /* imaginary */
+  eigenvalues[1] = 7.5;
+  /* l = (√m₂, −√m₁)/√(m₁+m₂) along x: the relative coordinate. */
+  vectors[0] = 2.0 / s5; vectors[3] = -1.0 / s5;
+  vectors[6] = 2.0 / s5; vectors[9] = -1.0 / s5;
+  modes = qv_mode_set_new (2, masses, 2, eigenvalues, vectors);
+
+  for (guint v = 0; v < 4; v++)
+    {
+      const double w = omega_of (7.5);
+      const double q_tp = sqrt ((2 * v + 1) * hbar / w / (m_u * 1e-20));
+      q = qv_mode_set_display_amplitude (modes, 1, v, 1.5, &from_tp);
+      assert_true (from_tp);
+      assert_rel (q, 1.5 * q_tp, 1e-12);
+    }
+  q = qv_mode_set_display_amplitude (modes, 0, 3, 2.0, &from_tp);
+  assert_false (from_tp);
+  /* Largest displacement: atom 1 (mass 1) moves |l|/√m = 2/√5 per unit Q. */
+  assert_rel (q * 2.0 / s5, 2.0 * QV_DISPLAY_FALLBACK_DISPLACEMENT, 1e-14);
+}
+
 int
 main (void)
 {
   const struct CMUnitTest tests[] = {
     cmocka_unit_test (test_turning_point_energy),
     cmocka_unit_test (test_thermal),
+    cmocka_unit_test (test_display_amplitude),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
