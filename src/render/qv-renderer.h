@@ -1,0 +1,66 @@
+/* qv-renderer.h — draws a structure and one animated mode with OpenGL 3.3
+ * core into whatever framebuffer is bound (a GtkGLArea's, or the offscreen
+ * backend's). All functions need the renderer's GL context current.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#pragma once
+#include <glib.h>
+#include "qv-camera.h"
+#include "qv-structure.h"
+#include "qv-style.h"
+
+G_BEGIN_DECLS
+
+typedef struct _QvRenderer QvRenderer;
+
+typedef enum {
+  QV_COLOUR_ELEMENT,
+  QV_COLOUR_PARTICIPATION,
+} QvAtomColouring;
+
+typedef struct {
+  gboolean bonds;
+  gboolean arrows;
+  gboolean cell;
+  gboolean labels;
+  QvAtomColouring colouring;
+  QvBackground background;
+  float atom_scale;        /* × the style radius, default 1 */
+  float arrow_scale;       /* arrow length in Å per Å of displacement amplitude */
+  float arrow_threshold;   /* Å: displacements below this draw no arrow */
+} QvRenderOptions;
+
+void qv_render_options_init (QvRenderOptions *options);
+
+/* Compiles the shaders (GResource) in the current context; errors name the
+ * shader file and the compiler's line. */
+QvRenderer *qv_renderer_new (GError **error);
+/* Frees GL objects: the context must be current. */
+void qv_renderer_free (QvRenderer *renderer);
+
+/* Uploads rest positions, elements, bonds (perceived from covalent radii)
+ * and the cell edges; clears the mode. */
+void qv_renderer_set_structure (QvRenderer *renderer, const QvStructure *structure);
+/* The displacement field of one mode, uploaded once: per atom
+ * r(φ) = r₀ + amplitude·(re·cos φ − im·sin φ); @re and @im are 3N Cartesian
+ * Å per unit amplitude; @im may be NULL (a real mode). NULL @re clears. */
+void qv_renderer_set_mode (QvRenderer *renderer, const float *re, const float *im,
+                           float amplitude);
+/* Per-atom participation in [0, 1] for participation colouring (n_atoms). */
+void qv_renderer_set_participation (QvRenderer *renderer, const float *participation);
+/* Animation phase φ in radians: one uniform per frame. */
+void qv_renderer_set_phase (QvRenderer *renderer, float phase);
+void qv_renderer_set_options (QvRenderer *renderer, const QvRenderOptions *options);
+const QvRenderOptions *qv_renderer_get_options (const QvRenderer *renderer);
+/* Atom drawn highlighted (selection), −1 for none. */
+void qv_renderer_set_highlight (QvRenderer *renderer, gssize atom);
+
+/* Draws a full frame into the bound framebuffer (viewport from @camera). */
+void qv_renderer_draw (QvRenderer *renderer, const QvCamera *camera);
+
+/* Positions (3N floats, Å) at the current phase, and the drawn radii
+ * (N floats, Å): what qv_camera_pick needs to pick what is on screen. */
+const float *qv_renderer_positions (QvRenderer *renderer);
+const float *qv_renderer_radii (const QvRenderer *renderer);
+gsize qv_renderer_n_atoms (const QvRenderer *renderer);
+
+G_END_DECLS
