@@ -106,6 +106,10 @@ void qv_manifest_set_string (GPtrArray *fields, const char *key, const char *val
 void qv_manifest_set_boolean (GPtrArray *fields, const char *key, gboolean value);
 /* NULL when absent. */
 const QvManifestField *qv_manifest_get (const GPtrArray *fields, const char *key);
+/* A number field: the reader gives integer literals (300) as
+ * QV_MANIFEST_INTEGER, so this takes both. FALSE when absent or not a
+ * number. */
+gboolean qv_manifest_get_number (const GPtrArray *fields, const char *key, double *value);
 
 /* A file written with @contents (hashed here); owned by @manifest. */
 QvManifestFile *qv_manifest_add_file (QvManifest *manifest, const char *name,

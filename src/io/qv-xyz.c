@@ -18,6 +18,7 @@
 
 #include "qv-element.h"
 #include "qv-io-error.h"
+#include "qv-output.h"
 
 /* A sane upper bound, checked before anything is allocated. */
 #define XYZ_MAX_ATOMS ((gsize) 10000000)
@@ -1033,4 +1034,183 @@ qv_xyz_read_file (const char *path, GError **error)
   if (!qv_io_read_file (path, XYZ_MAX_BYTES, &contents, &length, error))
     return NULL;
   return qv_xyz_read_data (contents, length, path, error);
+}
+
+/* ------------------------------------------------------------------ */
+/* Writing                                                              */
+
+static gboolean
+is_plain_word (const char *text)
+{
+  if (text == NULL || *text == '\0')
+    return FALSE;
+  for (const char *p = text; *p; p++)
+    if (!g_ascii_isalnum (*p) && strchr ("_-+.:/^", *p) == NULL)
+      return FALSE;
+  return TRUE;
+}
+
+static gboolean
+is_key (const char *text)
+{
+  if (text == NULL || *text == '\0')
+    return FALSE;
+  for (const char *p = text; *p; p++)
+    if (!g_ascii_isalnum (*p) && strchr ("_-.", *p) == NULL)
+      return FALSE;
+  return TRUE;
+}
+
+static void
+append_value (GString *out, const char *value)
+{
+  if (is_plain_word (value))
+    {
+      g_string_append (out, value);
+      return;
+    }
+  g_string_append_c (out, '"');
+  for (const char *p = value ? value : ""; *p; p++)
+    {
+      if (*p == '"' || *p == '\\')
+        g_string_append_c (out, '\\');
+      /* a line break would end the comment line */
+      g_string_append_c (out, *p == '\n' || *p == '\r' ? ' ' : *p);
+    }
+  g_string_append_c (out, '"');
+}
+
+/* One number, C locale; a fixed-point "-0.000…" loses its sign. */
+static void
+append_number (GString *out, double value, QvXyzPrecision precision, int width)
+{
+  char buf[G_ASCII_DTOSTR_BUF_SIZE];
+  const char *text;
+  gsize len;
+
+  g_ascii_formatd (buf, sizeof buf, precision == QV_XYZ_EXACT ? "%.17g" : "%.10f", value);
+  text = buf;
+  if (buf[0] == '-' && strspn (buf + 1, "0.") == strlen (buf + 1))
+    text = buf + 1;
+  len = strlen (text);
+  for (int i = (int) len; i < width; i++)
+    g_string_append_c (out, ' ');
+  g_string_append_len (out, text, (gssize) len);
+}
+
+static void
+append_comment (GString *out, const QvStructure *s, const QvXyzFrame *f)
+{
+  gboolean extended = f->style == QV_XYZ_EXTENDED;
+  gboolean first = TRUE;
+
+  if (extended)
+    {
+      g_string_append (out, "Properties=species:S:1:pos:R:3");
+      if (f->velocities)
+        g_string_append (out, ":velocities:R:3");
+      if (f->forces)
+        g_string_append (out, ":forces:R:3");
+      if (f->masses)
+        g_string_append (out, ":masses:R:1");
+      first = FALSE;
+      if (s->has_cell)
+        {
+          g_string_append (out, " Lattice=\"");
+          for (int i = 0; i < 3; i++)
+            for (int k = 0; k < 3; k++)
+              {
+                if (i || k)
+                  g_string_append_c (out, ' ');
+                append_number (out, s->cell[i][k], f->precision, 0);
+              }
+          g_string_append_printf (out, "\" pbc=\"%c %c %c\"", s->pbc[0] ? 'T' : 'F',
+                                  s->pbc[1] ? 'T' : 'F', s->pbc[2] ? 'T' : 'F');
+        }
+      if (f->has_energy)
+        {
+          g_string_append (out, " energy=");
+          append_number (out, f->energy, QV_XYZ_EXACT, 0);
+        }
+    }
+  for (gsize i = 0; i < f->n_pairs; i++)
+    {
+      const QvXyzPair *pair = &f->pairs[i];
+
+      g_return_if_fail (is_key (pair->key));
+      if (!first)
+        g_string_append_c (out, ' ');
+      first = FALSE;
+      g_string_append (out, pair->key);
+      g_string_append_c (out, '=');
+      append_value (out, pair->value);
+    }
+  if (!extended && f->n_pairs == 0 && f->comment)
+    for (const char *p = f->comment; *p; p++)
+      g_string_append_c (out, *p == '\n' || *p == '\r' ? ' ' : *p);
+  g_string_append_c (out, '\n');
+}
+
+void
+qv_xyz_append_frame (GString *out, const QvStructure *s, const QvXyzFrame *f)
+{
+  gboolean extended = f->style == QV_XYZ_EXTENDED;
+  const int width = f->precision == QV_XYZ_EXACT ? 24 : 16;
+
+  g_string_append_printf (out, "%" G_GSIZE_FORMAT "\n", s->n_atoms);
+  append_comment (out, s, f);
+  for (gsize a = 0; a < s->n_atoms; a++)
+    {
+      const QvElement *e = qv_element_from_z (s->atoms[a].z);
+      const double *x = f->positions ? f->positions + 3 * a : s->atoms[a].position;
+
+      g_string_append_printf (out, "%-2s", e ? e->symbol : "X");
+      for (int k = 0; k < 3; k++)
+        {
+          g_string_append_c (out, ' ');
+          append_number (out, x[k], f->precision, width);
+        }
+      if (extended && f->velocities)
+        for (int k = 0; k < 3; k++)
+          {
+            g_string_append_c (out, ' ');
+            append_number (out, f->velocities[3 * a + (gsize) k], f->precision, width);
+          }
+      if (extended && f->forces)
+        for (int k = 0; k < 3; k++)
+          {
+            g_string_append_c (out, ' ');
+            append_number (out, f->forces[3 * a + (gsize) k], f->precision, width);
+          }
+      if (extended && f->masses)
+        {
+          g_string_append_c (out, ' ');
+          append_number (out, s->atoms[a].mass, QV_XYZ_EXACT, 0);
+        }
+      g_string_append_c (out, '\n');
+    }
+}
+
+char *
+qv_xyz_format (const QvStructure *structure, const QvXyzFrame *frames, gsize n_frames,
+               gsize *length)
+{
+  /* ~ 60 bytes per atom line */
+  GString *out = g_string_sized_new (MAX (n_frames, (gsize) 1) * (structure->n_atoms + 2) * 64);
+
+  for (gsize i = 0; i < n_frames; i++)
+    qv_xyz_append_frame (out, structure, &frames[i]);
+  if (length)
+    *length = out->len;
+  return g_string_free (out, FALSE);
+}
+
+gboolean
+qv_xyz_write_file (const char *path, const QvStructure *structure, const QvXyzFrame *frames,
+                   gsize n_frames, gboolean force, GError **error)
+{
+  gsize length;
+  g_autofree char *text = qv_xyz_format (structure, frames, n_frames, &length);
+
+  return qv_output_write (path, text, length, force, error);
 }
