@@ -39,6 +39,9 @@ void qv_camera_set_viewport (QvCamera *camera, int width, int height);
  * sets the distance so that every point, padded by @padding Å, is visible. */
 void qv_camera_fit (QvCamera *camera, const float *points, gsize n, float padding);
 void qv_camera_view_along (QvCamera *camera, QvViewAxis axis);
+/* The orthographic view shows a half-height of distance·tan(fov_y/2) at the
+ * target, the same as the perspective view there, so switching does not
+ * jump. */
 void qv_camera_set_projection (QvCamera *camera, QvCameraProjection projection);
 
 /* Arcball (Shoemake): begin at a pixel, drag to another, end. */

@@ -10,6 +10,14 @@
 
 G_BEGIN_DECLS
 
+#define QV_RENDER_ERROR (qv_render_error_quark ())
+typedef enum {
+  QV_RENDER_ERROR_SHADER,     /* a shader did not compile or link */
+  QV_RENDER_ERROR_CONTEXT,    /* no EGL, no platform, no GL 3.3 core */
+  QV_RENDER_ERROR_FRAMEBUFFER,
+} QvRenderErrorCode;
+GQuark qv_render_error_quark (void);
+
 typedef struct _QvRenderer QvRenderer;
 
 typedef enum {
@@ -27,12 +35,15 @@ typedef struct {
   float atom_scale;        /* × the style radius, default 1 */
   float arrow_scale;       /* arrow length in Å per Å of displacement amplitude */
   float arrow_threshold;   /* Å: displacements below this draw no arrow */
+  /* Added by the renderer (fields only, the functions are unchanged): */
+  gboolean depth_cue;      /* fade far atoms toward the background */
+  float bond_radius;       /* Å, default 0.14 */
 } QvRenderOptions;
 
 void qv_render_options_init (QvRenderOptions *options);
 
 /* Compiles the shaders (GResource) in the current context; errors name the
- * shader file and the compiler's line. */
+ * shader file and the compiler's line (QV_RENDER_ERROR). */
 QvRenderer *qv_renderer_new (GError **error);
 /* Frees GL objects: the context must be current. */
 void qv_renderer_free (QvRenderer *renderer);
@@ -45,7 +56,8 @@ void qv_renderer_set_structure (QvRenderer *renderer, const QvStructure *structu
  * Å per unit amplitude; @im may be NULL (a real mode). NULL @re clears. */
 void qv_renderer_set_mode (QvRenderer *renderer, const float *re, const float *im,
                            float amplitude);
-/* Per-atom participation in [0, 1] for participation colouring (n_atoms). */
+/* Per-atom participation in [0, 1] for participation colouring (n_atoms);
+ * scaled by its largest value for the ramp; NULL clears. */
 void qv_renderer_set_participation (QvRenderer *renderer, const float *participation);
 /* Animation phase φ in radians: one uniform per frame. */
 void qv_renderer_set_phase (QvRenderer *renderer, float phase);
@@ -54,7 +66,9 @@ const QvRenderOptions *qv_renderer_get_options (const QvRenderer *renderer);
 /* Atom drawn highlighted (selection), −1 for none. */
 void qv_renderer_set_highlight (QvRenderer *renderer, gssize atom);
 
-/* Draws a full frame into the bound framebuffer (viewport from @camera). */
+/* Draws a full frame into the bound framebuffer (viewport from @camera:
+ * camera->width × camera->height pixels, so with the offscreen backend give
+ * the camera the draw size that qv_offscreen_begin returns). */
 void qv_renderer_draw (QvRenderer *renderer, const QvCamera *camera);
 
 /* Positions (3N floats, Å) at the current phase, and the drawn radii
@@ -62,5 +76,7 @@ void qv_renderer_draw (QvRenderer *renderer, const QvCamera *camera);
 const float *qv_renderer_positions (QvRenderer *renderer);
 const float *qv_renderer_radii (const QvRenderer *renderer);
 gsize qv_renderer_n_atoms (const QvRenderer *renderer);
+/* Added by the renderer: number of bonds drawn (perceived by qv-bonds.h). */
+gsize qv_renderer_n_bonds (const QvRenderer *renderer);
 
 G_END_DECLS

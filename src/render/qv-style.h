@@ -13,12 +13,13 @@ typedef enum {
 } QvBackground;
 
 typedef struct {
-  float rgb[3];           /* linear 0..1 as written in the table (sRGB) */
+  float rgb[3];           /* sRGB-encoded 0..1, as written in the table */
   float radius;           /* Å, drawn sphere radius in ball-and-stick */
 } QvElementStyle;
 
 /* Style of element @z (1..118); unknown elements get a neutral grey. */
 const QvElementStyle *qv_style_element (guint z);
+/* Background colours are sRGB-encoded 0..1 like every colour here. */
 void qv_style_background (QvBackground background, float rgba[4]);
 /* Colour of displacement arrows on @background. */
 void qv_style_arrow (QvBackground background, float rgb[3]);

@@ -1,0 +1,1 @@
+// arrow.frag — Quaver renderer (in progress)

@@ -1,0 +1,1 @@
+// arrow.vert — Quaver renderer (in progress)

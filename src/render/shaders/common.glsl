@@ -1,0 +1,1 @@
+// common.glsl — Quaver renderer (in progress)

@@ -1,0 +1,1 @@
+// cylinder.frag — Quaver renderer (in progress)

@@ -1,0 +1,1 @@
+// cylinder.vert — Quaver renderer (in progress)

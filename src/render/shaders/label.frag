@@ -1,0 +1,1 @@
+// label.frag — Quaver renderer (in progress)

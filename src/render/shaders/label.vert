@@ -1,0 +1,1 @@
+// label.vert — Quaver renderer (in progress)

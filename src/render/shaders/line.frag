@@ -1,0 +1,1 @@
+// line.frag — Quaver renderer (in progress)

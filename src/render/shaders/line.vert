@@ -1,0 +1,1 @@
+// line.vert — Quaver renderer (in progress)

@@ -1,0 +1,1 @@
+// sphere.frag — Quaver renderer (in progress)

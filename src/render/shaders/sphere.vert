@@ -1,0 +1,1 @@
+// sphere.vert — Quaver renderer (in progress)
