@@ -15,6 +15,8 @@ typedef struct {
 
 static const Command commands[] = {
   { "modes", qv_cmd_modes, "solve the normal modes and print the mode table" },
+  { "table", qv_cmd_table, "a mode table of chosen columns (text, CSV, Markdown, LaTeX, JSON)" },
+  { "displace", qv_cmd_displace, "structures displaced along modes, with a manifest" },
 };
 
 static void

@@ -1,4 +1,5 @@
-/* qv-mode-table.c
+/* qv-mode-table.c — the mode report of `quaver modes` and the column tables
+ * of `quaver table`.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <math.h>
 #include <string.h>
@@ -14,6 +15,7 @@ qv_table_format_parse (const char *text, QvTableFormat *format, GError **error)
   static const struct { const char *name; QvTableFormat f; } names[] = {
     { "text", QV_TABLE_TEXT }, { "csv", QV_TABLE_CSV },
     { "json", QV_TABLE_JSON }, { "markdown", QV_TABLE_MARKDOWN }, { "md", QV_TABLE_MARKDOWN },
+    { "latex", QV_TABLE_LATEX }, { "tex", QV_TABLE_LATEX },
   };
   for (gsize i = 0; i < G_N_ELEMENTS (names); i++)
     if (text && g_ascii_strcasecmp (text, names[i].name) == 0)
@@ -22,7 +24,7 @@ qv_table_format_parse (const char *text, QvTableFormat *format, GError **error)
         return TRUE;
       }
   g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
-               "unknown format '%s'; accepted: text, csv, json, markdown", text ? text : "");
+               "unknown format '%s'; accepted: text, csv, json, markdown, latex", text ? text : "");
   return FALSE;
 }
 
@@ -430,7 +432,548 @@ qv_mode_table_format (const QvModeReport *report, QvTableFormat format)
     case QV_TABLE_CSV: return format_csv (report);
     case QV_TABLE_JSON: return format_json (report);
     case QV_TABLE_MARKDOWN: return format_markdown (report);
+    case QV_TABLE_LATEX:
+      {
+        QvTableLayout layout = { .report = report };
+        return qv_mode_table_columns (&layout, QV_TABLE_LATEX);
+      }
     case QV_TABLE_TEXT:
     default: return format_text (report);
+    }
+}
+
+/* ------------------------------------------------------------------------ */
+/* Tables of chosen columns                                                 */
+/* ------------------------------------------------------------------------ */
+
+static const struct {
+  const char *name;            /* as the command line spells it */
+  const char *label;           /* for people */
+  const char *csv;             /* CSV / JSON name */
+  gboolean numeric;            /* right-aligned */
+} columns_info[QV_N_COLUMNS] = {
+  [QV_COLUMN_INDEX] = { "index", "mode", "index", TRUE },
+  [QV_COLUMN_WAVENUMBER] = { "wavenumber", "wavenumber", "wavenumber", TRUE },
+  [QV_COLUMN_REDUCED_MASS] = { "reduced-mass", "reduced mass", "reduced_mass", TRUE },
+  [QV_COLUMN_FORCE_CONSTANT] = { "force-constant", "force constant", "force_constant", TRUE },
+  [QV_COLUMN_TURNING_Q] = { "turning-q", "Q_tp", "turning_point_Q", TRUE },
+  [QV_COLUMN_TURNING_DISPLACEMENT] = { "turning-displacement", "largest displacement",
+                                       "turning_point_max_displacement", TRUE },
+  [QV_COLUMN_THERMAL_RMS] = { "thermal-rms", "thermal RMS", "thermal_max_rms_displacement", TRUE },
+  [QV_COLUMN_COLLECTIVITY] = { "collectivity", "collectivity", "collectivity", TRUE },
+  [QV_COLUMN_TOP_ATOMS] = { "top-atoms", "most moving atoms", "top_atoms", FALSE },
+};
+
+const char *
+qv_table_column_name (QvTableColumn column)
+{
+  return column < QV_N_COLUMNS ? columns_info[column].name : "?";
+}
+
+gboolean
+qv_table_columns_parse (const char *text, QvTableColumn *columns, gsize *n_columns,
+                        GError **error)
+{
+  g_auto(GStrv) parts = g_strsplit (text ? text : "", ",", -1);
+  gsize n = 0;
+
+  for (char **p = parts; *p; p++)
+    {
+      const char *name = g_strstrip (*p);
+      gint found = -1;
+
+      if (*name == '\0')
+        continue;
+      for (gint c = 0; c < QV_N_COLUMNS; c++)
+        if (g_ascii_strcasecmp (name, columns_info[c].name) == 0)
+          found = c;
+      if (found < 0)
+        {
+          GString *list = g_string_new (NULL);
+          for (gint c = 0; c < QV_N_COLUMNS; c++)
+            g_string_append_printf (list, "%s%s", c ? ", " : "", columns_info[c].name);
+          g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "unknown column '%s'; accepted: %s",
+                       name, list->str);
+          g_string_free (list, TRUE);
+          return FALSE;
+        }
+      for (gsize i = 0; i < n; i++)
+        if (columns[i] == (QvTableColumn) found)
+          {
+            g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "column '%s' is asked for twice", name);
+            return FALSE;
+          }
+      columns[n++] = (QvTableColumn) found;
+    }
+  if (n == 0)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "no columns given; for example --columns %s",
+                   QV_TABLE_DEFAULT_COLUMNS);
+      return FALSE;
+    }
+  *n_columns = n;
+  return TRUE;
+}
+
+/* Units of a column, per format (text/markdown, LaTeX, CSV names). */
+static const char *
+column_unit (const QvTableLayout *t, QvTableColumn c, QvTableFormat format)
+{
+  const gboolean tex = format == QV_TABLE_LATEX;
+  switch (c)
+    {
+    case QV_COLUMN_WAVENUMBER:
+      switch (t->report->unit)
+        {
+        case QV_FREQUENCY_THZ: return "THz";
+        case QV_FREQUENCY_MEV: return "meV";
+        default: return tex ? "cm$^{-1}$" : format == QV_TABLE_MARKDOWN ? "cm⁻¹" : "cm^-1";
+        }
+    case QV_COLUMN_REDUCED_MASS: return "u";
+    case QV_COLUMN_FORCE_CONSTANT: return tex ? "mdyn/\\AA" : format == QV_TABLE_MARKDOWN ? "mdyn/Å" : "mdyn/A";
+    case QV_COLUMN_TURNING_Q: return tex ? "u$^{1/2}$\\,\\AA" : format == QV_TABLE_MARKDOWN ? "u^½ Å" : "u^1/2 A";
+    case QV_COLUMN_TURNING_DISPLACEMENT:
+    case QV_COLUMN_THERMAL_RMS: return tex ? "\\AA" : format == QV_TABLE_MARKDOWN ? "Å" : "A";
+    default: return "";
+    }
+}
+
+static void
+latex_escape (GString *out, const char *text)
+{
+  for (const char *p = text; *p; p++)
+    switch (*p)
+      {
+      case '&': case '%': case '$': case '#': case '_': case '{': case '}':
+        g_string_append_c (out, '\\');
+        g_string_append_c (out, *p);
+        break;
+      case '~': g_string_append (out, "\\textasciitilde{}"); break;
+      case '^': g_string_append (out, "\\textasciicircum{}"); break;
+      case '\\': g_string_append (out, "\\textbackslash{}"); break;
+      default: g_string_append_c (out, *p);
+      }
+}
+
+static double
+layout_scale (const QvTableLayout *t)
+{
+  return t->scale > 0.0 ? t->scale : 1.0;
+}
+
+/* What the numbers are, in one sentence or two. */
+static char *
+table_caption (const QvTableLayout *t, gboolean tex)
+{
+  const QvModeReport *r = t->report;
+  g_autofree char *formula = qv_structure_formula (r->structure);
+  GString *c = g_string_new (NULL);
+  const double scale = layout_scale (t);
+  gboolean wavenumbers = FALSE, tp = FALSE, thermal = FALSE;
+  const QvTableColumn *cols = t->columns;
+
+  for (gsize i = 0; i < t->n_columns; i++)
+    {
+      wavenumbers |= cols[i] == QV_COLUMN_WAVENUMBER;
+      tp |= cols[i] == QV_COLUMN_TURNING_Q || cols[i] == QV_COLUMN_TURNING_DISPLACEMENT;
+      thermal |= cols[i] == QV_COLUMN_THERMAL_RMS;
+    }
+  g_string_append_printf (c, "Harmonic normal modes of %s (%" G_GSIZE_FORMAT " atoms, %s)",
+                          formula, r->structure->n_atoms,
+                          r->mass_model == QV_MASS_AVERAGE ? "standard atomic weights"
+                                                           : "most abundant isotopes");
+  if (wavenumbers && scale != 1.0)
+    g_string_append_printf (c, "; wavenumbers scaled by %g (the other columns are unscaled)",
+                            scale);
+  else if (wavenumbers)
+    g_string_append (c, "; wavenumbers unscaled");
+  if (wavenumbers && qv_mode_set_count_imaginary (r->modes) > 0)
+    g_string_append (c, "; i marks an imaginary mode");
+  if (tp)
+    g_string_append_printf (c, "; classical turning points of level v = %u", r->level);
+  if (thermal)
+    g_string_append_printf (c, "; thermal RMS displacement at T = %g K", r->temperature);
+  g_string_append (c, ".");
+  if (tex)
+    {
+      GString *e = g_string_new (NULL);
+      latex_escape (e, c->str);
+      g_string_free (c, TRUE);
+      return g_string_free (e, FALSE);
+    }
+  return g_string_free (c, FALSE);
+}
+
+typedef struct {
+  Row row;
+  double *participation;
+  gsize *order;                /* atoms by participation, largest first */
+} TableRow;
+
+static gint
+by_share (gconstpointer a, gconstpointer b, gpointer data)
+{
+  const double *shares = data;
+  const double pa = shares[*(const gsize *) a], pb = shares[*(const gsize *) b];
+  if (pa != pb)
+    return pa > pb ? -1 : 1;
+  return *(const gsize *) a < *(const gsize *) b ? -1 : 1;
+}
+
+static void
+table_row (const QvTableLayout *t, gsize k, TableRow *tr)
+{
+  const gsize n = t->report->modes->n_atoms;
+  compute_row (t->report, k, &tr->row, tr->participation);
+  for (gsize a = 0; a < n; a++)
+    tr->order[a] = a;
+  /* ties go to the lower index */
+  g_qsort_with_data (tr->order, (gint) n, sizeof (gsize), by_share, tr->participation);
+}
+
+/* A cell as people read it: "1594.6", "512.3i", "0.0734 (H2)", "—". */
+static char *
+cell_text (const QvTableLayout *t, const TableRow *tr, gsize k, QvTableColumn c,
+           QvTableFormat format)
+{
+  const Row *row = &tr->row;
+  const QvModeReport *r = t->report;
+  const char *none = format == QV_TABLE_TEXT ? "-" : format == QV_TABLE_LATEX ? "---" : "—";
+  const int decimals = r->unit == QV_FREQUENCY_CM1 ? 1 : 4;
+  char atom[16];
+
+  switch (c)
+    {
+    case QV_COLUMN_INDEX:
+      return g_strdup_printf ("%" G_GSIZE_FORMAT, k + 1);
+    case QV_COLUMN_WAVENUMBER:
+      return g_strdup_printf ("%.*f%s", decimals, row->shown * layout_scale (t),
+                              row->imaginary ? "i" : "");
+    case QV_COLUMN_REDUCED_MASS:
+      return g_strdup_printf ("%.4f", row->reduced_mass);
+    case QV_COLUMN_FORCE_CONSTANT:
+      return g_strdup_printf ("%.4f", row->force_constant);
+    case QV_COLUMN_TURNING_Q:
+      return row->tp.defined ? g_strdup_printf ("%.4f", row->tp.q) : g_strdup (none);
+    case QV_COLUMN_TURNING_DISPLACEMENT:
+      if (!row->tp.defined)
+        return g_strdup (none);
+      atom_name (atom, sizeof atom, r->structure, row->tp.max_atom);
+      return g_strdup_printf ("%.4f (%s)", row->tp.max_displacement, atom);
+    case QV_COLUMN_THERMAL_RMS:
+      return row->th.defined ? g_strdup_printf ("%.4f", row->th.max_rms_displacement)
+                             : g_strdup (none);
+    case QV_COLUMN_COLLECTIVITY:
+      return g_strdup_printf ("%.3f", row->collectivity);
+    case QV_COLUMN_TOP_ATOMS:
+      {
+        GString *s = g_string_new (NULL);
+        const guint top = MIN (t->top_atoms ? t->top_atoms : 3, (guint) r->modes->n_atoms);
+        for (guint i = 0; i < top; i++)
+          {
+            atom_name (atom, sizeof atom, r->structure, tr->order[i]);
+            g_string_append_printf (s, "%s%s %.0f%s", i ? ", " : "", atom,
+                                    100.0 * tr->participation[tr->order[i]],
+                                    format == QV_TABLE_LATEX ? "\\%" : "%");
+          }
+        return g_string_free (s, FALSE);
+      }
+    default:
+      return g_strdup ("");
+    }
+}
+
+static char *
+header_text (const QvTableLayout *t, QvTableColumn c, QvTableFormat format)
+{
+  const char *unit = column_unit (t, c, format);
+  const char *label = columns_info[c].label;
+  GString *s = g_string_new (NULL);
+
+  if (format == QV_TABLE_LATEX)
+    {
+      if (c == QV_COLUMN_TURNING_Q)
+        g_string_append (s, "$Q_\\mathrm{tp}$");
+      else
+        latex_escape (s, label);
+    }
+  else
+    g_string_append (s, label);
+  if (c == QV_COLUMN_TURNING_Q || c == QV_COLUMN_TURNING_DISPLACEMENT)
+    g_string_append_printf (s, format == QV_TABLE_LATEX ? " ($v=%u$)" : " (v=%u)", t->report->level);
+  if (*unit)
+    g_string_append_printf (s, " (%s)", unit);
+  return g_string_free (s, FALSE);
+}
+
+static char *
+columns_csv (const QvTableLayout *t, TableRow *tr)
+{
+  const QvModeReport *r = t->report;
+  GString *out = g_string_new (NULL);
+  const double scale = layout_scale (t);
+
+  for (gsize i = 0; i < t->n_columns; i++)
+    {
+      const QvTableColumn c = t->columns[i];
+      if (i)
+        g_string_append_c (out, ',');
+      switch (c)
+        {
+        case QV_COLUMN_WAVENUMBER:
+          g_string_append_printf (out, "wavenumber_%s", qv_frequency_unit_name (r->unit));
+          if (scale != 1.0)
+            g_string_append_printf (out, "_scaled_%g", scale);
+          g_string_append (out, ",imaginary");
+          break;
+        case QV_COLUMN_REDUCED_MASS: g_string_append (out, "reduced_mass_u"); break;
+        case QV_COLUMN_FORCE_CONSTANT: g_string_append (out, "force_constant_mdyn_per_A"); break;
+        case QV_COLUMN_TURNING_Q:
+          g_string_append_printf (out, "turning_point_Q_v%u_u^1/2_A", r->level); break;
+        case QV_COLUMN_TURNING_DISPLACEMENT:
+          g_string_append_printf (out, "turning_point_max_displacement_v%u_A,turning_point_max_atom",
+                                  r->level); break;
+        case QV_COLUMN_THERMAL_RMS:
+          g_string_append_printf (out, "thermal_max_rms_displacement_%gK_A", r->temperature); break;
+        default: g_string_append (out, columns_info[c].csv); break;
+        }
+    }
+  g_string_append_c (out, '\n');
+  for (gsize k = 0; k < r->modes->n_modes; k++)
+    {
+      table_row (t, k, tr);
+      for (gsize i = 0; i < t->n_columns; i++)
+        {
+          const Row *row = &tr->row;
+          if (i)
+            g_string_append_c (out, ',');
+          switch (t->columns[i])
+            {
+            case QV_COLUMN_INDEX: g_string_append_printf (out, "%" G_GSIZE_FORMAT, k + 1); break;
+            case QV_COLUMN_WAVENUMBER:
+              g_string_append_printf (out, "%.6f,%s",
+                                      qv_frequency_from_wavenumber (row->wavenumber, r->unit) * scale,
+                                      row->imaginary ? "true" : "false");
+              break;
+            case QV_COLUMN_REDUCED_MASS: g_string_append_printf (out, "%.8g", row->reduced_mass); break;
+            case QV_COLUMN_FORCE_CONSTANT: g_string_append_printf (out, "%.8g", row->force_constant); break;
+            case QV_COLUMN_TURNING_Q:
+              if (row->tp.defined)
+                g_string_append_printf (out, "%.8g", row->tp.q);
+              break;
+            case QV_COLUMN_TURNING_DISPLACEMENT:
+              if (row->tp.defined)
+                g_string_append_printf (out, "%.8g,%" G_GSIZE_FORMAT, row->tp.max_displacement,
+                                        row->tp.max_atom + 1);
+              else
+                g_string_append_c (out, ',');
+              break;
+            case QV_COLUMN_THERMAL_RMS:
+              if (row->th.defined)
+                g_string_append_printf (out, "%.8g", row->th.max_rms_displacement);
+              break;
+            case QV_COLUMN_COLLECTIVITY: g_string_append_printf (out, "%.6f", row->collectivity); break;
+            case QV_COLUMN_TOP_ATOMS:
+              {
+                g_autofree char *text = cell_text (t, tr, k, QV_COLUMN_TOP_ATOMS, QV_TABLE_CSV);
+                g_string_append_printf (out, "\"%s\"", text);   /* no quotes inside */
+              }
+              break;
+            default: break;
+            }
+        }
+      g_string_append_c (out, '\n');
+    }
+  return g_string_free (out, FALSE);
+}
+
+static char *
+columns_json (const QvTableLayout *t, TableRow *tr)
+{
+  const QvModeReport *r = t->report;
+  QvJsonWriter *w = qv_json_writer_new ();
+  g_autofree char *caption = table_caption (t, FALSE);
+  const double scale = layout_scale (t);
+
+  qv_json_begin_object (w, NULL);
+  qv_json_string (w, "program", "quaver " QV_VERSION);
+  qv_json_string (w, "caption", caption);
+  qv_json_number (w, "scale", scale);
+  qv_json_string (w, "frequency_unit", qv_frequency_unit_name (r->unit));
+  qv_json_int (w, "level", r->level);
+  qv_json_number (w, "temperature", r->temperature);
+  qv_json_string (w, "masses", r->mass_model == QV_MASS_AVERAGE ? "average" : "isotopic");
+  qv_json_begin_array (w, "columns");
+  for (gsize i = 0; i < t->n_columns; i++)
+    qv_json_string (w, NULL, columns_info[t->columns[i]].name);
+  qv_json_end_array (w);
+  qv_json_begin_object (w, "units");
+  for (gsize i = 0; i < t->n_columns; i++)
+    if (*column_unit (t, t->columns[i], QV_TABLE_JSON))
+      qv_json_string (w, columns_info[t->columns[i]].csv, column_unit (t, t->columns[i], QV_TABLE_JSON));
+  qv_json_end_object (w);
+  qv_json_begin_array (w, "modes");
+  for (gsize k = 0; k < r->modes->n_modes; k++)
+    {
+      const Row *row = &tr->row;
+      table_row (t, k, tr);
+      qv_json_begin_object (w, NULL);
+      for (gsize i = 0; i < t->n_columns; i++)
+        switch (t->columns[i])
+          {
+          case QV_COLUMN_INDEX: qv_json_int (w, "index", (gint64) k + 1); break;
+          case QV_COLUMN_WAVENUMBER:
+            qv_json_number (w, "wavenumber", qv_frequency_from_wavenumber (row->wavenumber, r->unit) * scale);
+            qv_json_number (w, "wavenumber_unscaled", qv_frequency_from_wavenumber (row->wavenumber, r->unit));
+            qv_json_bool (w, "imaginary", row->imaginary);
+            break;
+          case QV_COLUMN_REDUCED_MASS: qv_json_number (w, "reduced_mass", row->reduced_mass); break;
+          case QV_COLUMN_FORCE_CONSTANT: qv_json_number (w, "force_constant", row->force_constant); break;
+          case QV_COLUMN_TURNING_Q: number_or_null (w, "turning_point_Q", row->tp.defined, row->tp.q); break;
+          case QV_COLUMN_TURNING_DISPLACEMENT:
+            number_or_null (w, "turning_point_max_displacement", row->tp.defined, row->tp.max_displacement);
+            atom_or_null (w, "turning_point_max_atom", row->tp.defined, row->tp.max_atom);
+            break;
+          case QV_COLUMN_THERMAL_RMS:
+            number_or_null (w, "thermal_max_rms_displacement", row->th.defined, row->th.max_rms_displacement);
+            break;
+          case QV_COLUMN_COLLECTIVITY: qv_json_number (w, "collectivity", row->collectivity); break;
+          case QV_COLUMN_TOP_ATOMS:
+            {
+              const guint top = MIN (t->top_atoms ? t->top_atoms : 3, (guint) r->modes->n_atoms);
+              qv_json_begin_array (w, "top_atoms");
+              for (guint a = 0; a < top; a++)
+                {
+                  qv_json_begin_object (w, NULL);
+                  qv_json_int (w, "atom", (gint64) tr->order[a] + 1);
+                  qv_json_number (w, "participation", tr->participation[tr->order[a]]);
+                  qv_json_end_object (w);
+                }
+              qv_json_end_array (w);
+            }
+            break;
+          default: break;
+          }
+      qv_json_end_object (w);
+    }
+  qv_json_end_array (w);
+  qv_json_end_object (w);
+  return qv_json_writer_finish (w);
+}
+
+/* Text, Markdown and LaTeX: the cells first, then aligned output. */
+static char *
+columns_grid (const QvTableLayout *t, TableRow *tr, QvTableFormat format)
+{
+  const QvModeReport *r = t->report;
+  const gsize nc = t->n_columns, nr = r->modes->n_modes;
+  g_autoptr(GPtrArray) cells = g_ptr_array_new_with_free_func (g_free);
+  g_autofree gsize *width = g_new0 (gsize, nc);
+  g_autofree char *caption = table_caption (t, format == QV_TABLE_LATEX);
+  GString *out = g_string_new (NULL);
+
+  for (gsize i = 0; i < nc; i++)
+    g_ptr_array_add (cells, header_text (t, t->columns[i], format));
+  for (gsize k = 0; k < nr; k++)
+    {
+      table_row (t, k, tr);
+      for (gsize i = 0; i < nc; i++)
+        g_ptr_array_add (cells, cell_text (t, tr, k, t->columns[i], format));
+    }
+  for (gsize j = 0; j < cells->len; j++)
+    width[j % nc] = MAX (width[j % nc], (gsize) g_utf8_strlen (cells->pdata[j], -1));
+
+  if (format == QV_TABLE_TEXT)
+    {
+      g_string_append_printf (out, "# quaver %s: %s\n", QV_VERSION, caption);
+    }
+  else if (format == QV_TABLE_MARKDOWN)
+    g_string_append_printf (out, "**Table.** %s\n\n", caption);
+  else
+    {
+      g_string_append_printf (out, "%% quaver %s; needs \\usepackage{booktabs}\n", QV_VERSION);
+      g_string_append (out, "\\begin{table}\n  \\centering\n");
+      g_string_append_printf (out, "  \\caption{%s}\n", caption);
+      g_string_append (out, "  \\begin{tabular}{");
+      for (gsize i = 0; i < nc; i++)
+        g_string_append_c (out, columns_info[t->columns[i]].numeric ? 'r' : 'l');
+      g_string_append (out, "}\n    \\toprule\n");
+    }
+
+  for (gsize row = 0; row <= nr; row++)
+    {
+      if (format == QV_TABLE_MARKDOWN)
+        g_string_append (out, "|");
+      else if (format == QV_TABLE_LATEX)
+        g_string_append (out, "    ");
+      for (gsize i = 0; i < nc; i++)
+        {
+          const char *text = cells->pdata[row * nc + i];
+          const gsize len = (gsize) g_utf8_strlen (text, -1);
+          const gboolean right = columns_info[t->columns[i]].numeric;
+          GString *cell = g_string_new (NULL);
+
+          if (format == QV_TABLE_LATEX && row > 0 && t->columns[i] != QV_COLUMN_TOP_ATOMS)
+            latex_escape (cell, text);
+          else
+            g_string_append (cell, text);
+          if (format == QV_TABLE_MARKDOWN)
+            g_string_append_printf (out, " %s |", cell->str);
+          else
+            {
+              if (i > 0)
+                g_string_append (out, format == QV_TABLE_LATEX ? " & " : "  ");
+              if (right)
+                for (gsize p = len; p < width[i]; p++)
+                  g_string_append_c (out, ' ');
+              g_string_append (out, cell->str);
+              if (!right && i + 1 < nc)
+                for (gsize p = len; p < width[i]; p++)
+                  g_string_append_c (out, ' ');
+            }
+          g_string_free (cell, TRUE);
+        }
+      if (format == QV_TABLE_LATEX)
+        g_string_append (out, " \\\\");
+      g_string_append_c (out, '\n');
+      if (row == 0 && format == QV_TABLE_MARKDOWN)
+        {
+          g_string_append (out, "|");
+          for (gsize i = 0; i < nc; i++)
+            g_string_append (out, columns_info[t->columns[i]].numeric ? "---:|" : ":---|");
+          g_string_append_c (out, '\n');
+        }
+      else if (row == 0 && format == QV_TABLE_LATEX)
+        g_string_append (out, "    \\midrule\n");
+    }
+  if (format == QV_TABLE_LATEX)
+    g_string_append (out, "    \\bottomrule\n  \\end{tabular}\n\\end{table}\n");
+  return g_string_free (out, FALSE);
+}
+
+char *
+qv_mode_table_columns (const QvTableLayout *layout, QvTableFormat format)
+{
+  QvTableColumn defaults[QV_N_COLUMNS];
+  QvTableLayout t = *layout;
+  const gsize n = MAX (layout->report->modes->n_atoms, (gsize) 1);
+  g_autofree double *participation = g_new (double, n);
+  g_autofree gsize *order = g_new (gsize, n);
+  TableRow tr = { .participation = participation, .order = order };
+
+  if (t.columns == NULL || t.n_columns == 0)
+    {
+      gboolean ok = qv_table_columns_parse (QV_TABLE_DEFAULT_COLUMNS, defaults, &t.n_columns, NULL);
+      g_assert (ok);
+      t.columns = defaults;
+    }
+  switch (format)
+    {
+    case QV_TABLE_CSV: return columns_csv (&t, &tr);
+    case QV_TABLE_JSON: return columns_json (&t, &tr);
+    case QV_TABLE_MARKDOWN:
+    case QV_TABLE_LATEX:
+    case QV_TABLE_TEXT:
+    default: return columns_grid (&t, &tr, format);
     }
 }

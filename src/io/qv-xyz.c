@@ -1045,7 +1045,7 @@ is_plain_word (const char *text)
   if (text == NULL || *text == '\0')
     return FALSE;
   for (const char *p = text; *p; p++)
-    if (!g_ascii_isalnum (*p) && strchr ("_-+.:/^", *p) == NULL)
+    if (!g_ascii_isalnum (*p) && strchr ("_-+.:/^,", *p) == NULL)
       return FALSE;
   return TRUE;
 }

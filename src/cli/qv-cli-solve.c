@@ -1,0 +1,118 @@
+/* qv-cli-solve.c — the input and solver options shared by table and
+ * displace; `quaver modes` keeps its own (identical) spelling.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <string.h>
+#include <gio/gio.h>
+#include "qv-cli-solve.h"
+#include "qv-error.h"
+#include "qv-input.h"
+#include "qv-solver.h"
+
+void
+qv_cli_solve_add_entries (GOptionContext *context, QvCliSolveArgs *a)
+{
+  const GOptionEntry entries[] = {
+    { "hessian", 'H', 0, G_OPTION_ARG_FILENAME, &a->hessian, "Hessian file: text or NumPy .npy", "FILE" },
+    { "hessian-units", 'u', 0, G_OPTION_ARG_STRING, &a->units,
+      "Units of the Hessian: eV/A^2, hartree/bohr^2, kcal/mol/A^2, kJ/mol/A^2, mdyn/A, aJ/A^2, N/m", "UNIT" },
+    { "hessian-layout", 0, 0, G_OPTION_ARG_STRING, &a->layout,
+      "Text layout: auto (default, from the row lengths), full, lower, upper", "LAYOUT" },
+    { "project", 'p', 0, G_OPTION_ARG_STRING, &a->projection,
+      "Rigid-body motion to remove: full (default), translations, none", "WHAT" },
+    { "lowest", 'k', 0, G_OPTION_ARG_INT64, &a->lowest, "Solve only the lowest K modes (faster)", "K" },
+    { "lowest-method", 0, 0, G_OPTION_ARG_STRING, &a->method,
+      "How --lowest solves: auto (default), lapack (dsyevr), lanczos (shift-invert, checked, falls back to lapack)", "HOW" },
+    { "masses", 0, 0, G_OPTION_ARG_STRING, &a->masses,
+      "isotopic (most abundant isotope, default) or average (standard atomic weights)", "MODEL" },
+    { "isotope", 'i', 0, G_OPTION_ARG_STRING_ARRAY, &a->isotopes,
+      "Give an atom an isotope, e.g. 3=2 for deuterium on atom 3 (repeatable)", "ATOM=A" },
+    { "mass", 'm', 0, G_OPTION_ARG_STRING_ARRAY, &a->mass_overrides,
+      "Give an atom a mass in u (repeatable)", "ATOM=MASS" },
+    { "demo", 0, 0, G_OPTION_ARG_NONE, &a->demo, "Use the built-in demo (invented data) as input", NULL },
+    { NULL }
+  };
+  g_option_context_add_main_entries (context, entries, NULL);
+}
+
+QvModeSet *
+qv_cli_solve (QvCliSolveArgs *a, const char *geometry, QvInput **input_out, GError **error)
+{
+  QvCliInputOptions io = { 0 };
+  QvSolveOptions solve;
+  QvProgress progress = { qv_cli_progress, NULL };
+  g_autoptr(QvInput) input = NULL;
+  QvModeSet *modes;
+
+  qv_solve_options_init (&solve);
+  if ((a->projection && !qv_projection_parse (a->projection, &solve.projection, error))
+      || (a->method && !qv_lowest_method_parse (a->method, &solve.lowest_method, error)))
+    return NULL;
+  if (a->lowest < 0)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "--lowest must be a positive number of modes");
+      return NULL;
+    }
+  io.geometry = geometry;
+  io.demo = a->demo;
+  io.hessian = a->hessian;
+  io.hessian_units = a->units;
+  io.hessian_layout = a->layout;
+  io.masses = a->masses;
+  io.isotopes = a->isotopes;
+  io.mass_overrides = a->mass_overrides;
+  io.all_modes = a->lowest == 0;
+  input = qv_cli_input_load (&io, error);
+  if (input == NULL)
+    return NULL;
+  if (input->hessian)
+    {
+      solve.lowest = (gsize) a->lowest;
+      modes = qv_solve (input->structure, g_steal_pointer (&input->hessian), &solve, &progress,
+                        error);
+      if (modes == NULL)
+        return NULL;
+    }
+  else
+    modes = g_steal_pointer (&input->modes);
+  *input_out = g_steal_pointer (&input);
+  return modes;
+}
+
+gboolean
+qv_cli_solve_hash_inputs (const QvCliSolveArgs *a, const char *geometry, const QvInput *input,
+                          QvManifest *manifest, GError **error)
+{
+  if (a->demo)
+    {
+      g_autoptr(GBytes) bytes = g_resources_lookup_data (QV_INPUT_DEMO_RESOURCE, 0, NULL);
+      gsize len = 0;
+      const void *data = bytes ? g_bytes_get_data (bytes, &len) : NULL;
+
+      if (data == NULL)
+        {
+          g_set_error (error, QV_ERROR, QV_ERROR_INPUT, "the built-in demo is missing from this build");
+          return FALSE;
+        }
+      qv_manifest_add_input_data (manifest, "demo", "resource://" QV_INPUT_DEMO_RESOURCE, data, len);
+      return TRUE;
+    }
+  if (geometry && !qv_manifest_add_input_file (manifest, qv_input_is_bundle (geometry) ? "bundle" : "geometry",
+                                               geometry, error))
+    return FALSE;
+  if (a->hessian)
+    return qv_manifest_add_input_file (manifest, "hessian", a->hessian, error);
+  /* a bundle's Hessian in a file of its own */
+  if (geometry && qv_input_is_bundle (geometry) && input->hessian_source
+      && g_file_test (input->hessian_source, G_FILE_TEST_IS_REGULAR))
+    return qv_manifest_add_input_file (manifest, "hessian", input->hessian_source, error);
+  return TRUE;
+}
+
+void
+qv_cli_solve_args_clear (QvCliSolveArgs *a)
+{
+  g_free (a->hessian); g_free (a->units); g_free (a->layout); g_free (a->masses);
+  g_free (a->projection); g_free (a->method);
+  g_strfreev (a->isotopes); g_strfreev (a->mass_overrides);
+  memset (a, 0, sizeof *a);
+}
