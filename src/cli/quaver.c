@@ -6,6 +6,9 @@
 #include <string.h>
 #include "qv-cli.h"
 #include "qv-config.h"
+#ifdef QV_HAVE_GUI
+#include "qv-gui.h"
+#endif
 
 typedef struct {
   const char *name;
@@ -24,7 +27,12 @@ print_usage (FILE *out)
 {
   fprintf (out,
            "Usage: quaver COMMAND [OPTION…] [FILE…]\n"
-           "       quaver FILE          open FILE in the desktop app (not in this build yet)\n"
+#ifdef QV_HAVE_GUI
+           "       quaver [FILE…]       open the desktop app (with FILE, or a welcome page)\n"
+           "       quaver --demo        open the desktop app on the built-in demo\n"
+#else
+           "       quaver FILE          open FILE in the desktop app (not in this build)\n"
+#endif
            "\n"
            "Normal modes from a geometry and its Hessian: frequencies, reduced masses,\n"
            "turning points, rigid-body diagnostics.\n"
@@ -51,6 +59,10 @@ main (int argc, char **argv)
   if (argc < 2)
     {
       print_usage (stderr);
+#ifdef QV_HAVE_GUI
+  if (argc < 2)
+    return qv_gui_run (argc, argv);
+#endif
       fprintf (stderr, "\nquaver: the desktop app is not part of this build yet; "
                        "use a command such as 'quaver modes --demo'\n");
       return QV_EXIT_USAGE;
@@ -79,6 +91,22 @@ main (int argc, char **argv)
   if (argv[1][0] == '-')
     fprintf (stderr, "quaver: unknown option '%s'\n", argv[1]);
   else if (g_file_test (argv[1], G_FILE_TEST_EXISTS))
+#ifdef QV_HAVE_GUI
+  /* Not a command: the app, with files and --demo only. Anything else is
+   * refused here, before a display or a bus is touched. */
+  for (int i = 1; i < argc; i++)
+    if (argv[i][0] == '-' && strcmp (argv[i], "--demo") != 0)
+      {
+        fprintf (stderr, "quaver: unknown option '%s'\nTry 'quaver --help'.\n", argv[i]);
+        return QV_EXIT_USAGE;
+      }
+    else if (argv[i][0] != '-' && !g_file_test (argv[i], G_FILE_TEST_EXISTS))
+      {
+        fprintf (stderr, "quaver: '%s' is neither a command nor a file\nTry 'quaver --help'.\n", argv[i]);
+        return QV_EXIT_USAGE;
+      }
+  return qv_gui_run (argc, argv);
+#endif
     fprintf (stderr, "quaver: the desktop app is not part of this build yet; "
                      "to see the modes of %s run 'quaver modes %s'\n", argv[1], argv[1]);
   else

@@ -1,0 +1,369 @@
+/* qv-document.c — the document of one window and its worker-thread jobs.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <glib/gi18n.h>
+#include "qv-config.h"
+#include "qv-document.h"
+#include "qv-error.h"
+#include "qv-solver.h"
+
+struct _QvDocument
+{
+  GObject parent_instance;
+  char *name;
+  char *path;
+  QvStructure *structure;   /* masses in use */
+  QvStructure *original;    /* masses as loaded */
+  QvHessian *hessian;       /* eV/Å² as read; never handed to qv_solve */
+  QvModeSet *modes;
+};
+
+G_DEFINE_FINAL_TYPE (QvDocument, qv_document, G_TYPE_OBJECT)
+
+enum { CHANGED, N_SIGNALS };
+static guint signals[N_SIGNALS];
+
+/* Progress reports hop from the worker to the main context, throttled. */
+#define PROGRESS_INTERVAL_US (50 * G_TIME_SPAN_MILLISECOND)
+
+typedef struct {
+  GTask *task;                     /* weak: the job that reports */
+  GMainContext *context;
+  QvDocumentProgressFunc func;
+  gpointer user_data;
+  gint64 last;                     /* worker only */
+} Relay;
+
+typedef struct {
+  GTask *task;                     /* owned: checked before reporting */
+  QvDocumentProgressFunc func;
+  gpointer user_data;
+  double fraction;
+  char *stage;
+} Report;
+
+static gboolean
+deliver_report (gpointer data)
+{
+  Report *r = data;
+  /* A job that has finished, or was cancelled, has nothing more to say. */
+  if (!g_task_get_completed (r->task) && !g_cancellable_is_cancelled (g_task_get_cancellable (r->task)))
+    r->func (r->fraction, r->stage, r->user_data);
+  return G_SOURCE_REMOVE;
+}
+
+static void
+report_free (gpointer data)
+{
+  Report *r = data;
+  g_object_unref (r->task);
+  g_free (r->stage);
+  g_free (r);
+}
+
+static void
+relay_post (Relay *relay, double fraction, const char *stage)
+{
+  Report *r;
+
+  if (relay->func == NULL)
+    return;
+  r = g_new0 (Report, 1);
+  r->task = g_object_ref (relay->task);
+  r->func = relay->func;
+  r->user_data = relay->user_data;
+  r->fraction = fraction;
+  r->stage = g_strdup (stage);
+  g_main_context_invoke_full (relay->context, G_PRIORITY_DEFAULT, deliver_report, r, report_free);
+}
+
+/* QvProgressFunc: runs on the worker. */
+static gboolean
+relay_progress (double fraction, const char *stage, gpointer user_data)
+{
+  Relay *relay = user_data;
+  const gint64 now = g_get_monotonic_time ();
+
+  if (g_cancellable_is_cancelled (g_task_get_cancellable (relay->task)))
+    return FALSE;
+  if (now - relay->last >= PROGRESS_INTERVAL_US || fraction >= 1.0)
+    {
+      relay->last = now;
+      relay_post (relay, fraction, stage);
+    }
+  return TRUE;
+}
+
+static void
+qv_document_finalize (GObject *object)
+{
+  QvDocument *self = QV_DOCUMENT (object);
+
+  g_free (self->name);
+  g_free (self->path);
+  g_clear_pointer (&self->structure, qv_structure_free);
+  g_clear_pointer (&self->original, qv_structure_free);
+  g_clear_pointer (&self->hessian, qv_hessian_free);
+  g_clear_pointer (&self->modes, qv_mode_set_free);
+  G_OBJECT_CLASS (qv_document_parent_class)->finalize (object);
+}
+
+static void
+qv_document_class_init (QvDocumentClass *klass)
+{
+  G_OBJECT_CLASS (klass)->finalize = qv_document_finalize;
+  /* The structure's masses and the modes were replaced. */
+  signals[CHANGED] = g_signal_new ("changed", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
+                                   0, NULL, NULL, NULL, G_TYPE_NONE, 0);
+}
+
+static void
+qv_document_init (QvDocument *self)
+{
+}
+
+QvDocumentSource *
+qv_document_source_copy (const QvDocumentSource *s)
+{
+  QvDocumentSource *c = g_new0 (QvDocumentSource, 1);
+  c->geometry = g_strdup (s->geometry);
+  c->demo = s->demo;
+  c->hessian = g_strdup (s->hessian);
+  c->hessian_units = g_strdup (s->hessian_units);
+  c->hessian_layout = g_strdup (s->hessian_layout);
+  return c;
+}
+
+void
+qv_document_source_free (QvDocumentSource *s)
+{
+  if (s == NULL)
+    return;
+  g_free (s->geometry);
+  g_free (s->hessian);
+  g_free (s->hessian_units);
+  g_free (s->hessian_layout);
+  g_free (s);
+}
+
+static QvModeSet *
+solve_copy (const QvStructure *structure, const QvHessian *hessian,
+            const QvProgress *progress, GError **error)
+{
+  QvSolveOptions options;
+  QvHessian *copy = qv_hessian_copy (hessian, error);
+
+  if (copy == NULL)
+    return NULL;
+  qv_solve_options_init (&options);
+  /* qv_solve consumes the matrix it is given: the copy, never the original. */
+  return qv_solve (structure, copy, &options, progress, error);
+}
+
+static QvDocument *
+document_new (const char *name, const char *path, QvStructure *structure,
+              QvHessian *hessian, QvModeSet *modes)
+{
+  QvDocument *doc = g_object_new (QV_TYPE_DOCUMENT, NULL);
+  doc->name = g_strdup (name);
+  doc->path = g_strdup (path);
+  doc->original = qv_structure_copy (structure);
+  doc->structure = structure;
+  doc->hessian = hessian;
+  doc->modes = modes;
+  return doc;
+}
+
+QvDocument *
+qv_document_new_solved (const char *name, QvStructure *structure, QvHessian *hessian,
+                        GError **error)
+{
+  QvModeSet *modes = solve_copy (structure, hessian, NULL, error);
+
+  if (modes == NULL)
+    {
+      qv_structure_free (structure);
+      qv_hessian_free (hessian);
+      return NULL;
+    }
+  return document_new (name, NULL, structure, hessian, modes);
+}
+
+/* ---- loading ---- */
+
+typedef struct {
+  QvDocumentSource *source;
+  Relay relay;
+} LoadData;
+
+static void
+load_data_free (gpointer data)
+{
+  LoadData *d = data;
+  qv_document_source_free (d->source);
+  g_main_context_unref (d->relay.context);
+  g_free (d);
+}
+
+static void
+load_thread (GTask *task, gpointer source_object, gpointer task_data, GCancellable *cancellable)
+{
+  LoadData *d = task_data;
+  QvInputOptions o = {
+    .geometry = d->source->geometry, .demo = d->source->demo,
+    .hessian = d->source->hessian, .hessian_units = d->source->hessian_units,
+    .hessian_layout = d->source->hessian_layout, .all_modes = TRUE,
+  };
+  QvProgress progress = { relay_progress, &d->relay };
+  g_autoptr(QvInput) input = NULL;
+  GError *error = NULL;
+  QvModeSet *modes;
+  QvDocument *doc;
+  g_autofree char *display = NULL;
+
+  relay_post (&d->relay, -1.0, N_("reading"));
+  input = qv_input_load (&o, &error);
+  if (input == NULL)
+    {
+      g_task_return_error (task, error);
+      return;
+    }
+  if (g_task_return_error_if_cancelled (task))
+    return;
+  if (input->hessian)
+    {
+      modes = solve_copy (input->structure, input->hessian, &progress, &error);
+      if (modes == NULL)
+        {
+          g_task_return_error (task, error);
+          return;
+        }
+    }
+  else
+    modes = g_steal_pointer (&input->modes);
+
+  display = d->source->demo ? g_strdup (_("Demo (invented data)"))
+                            : g_path_get_basename (d->source->geometry);
+  doc = document_new (display, d->source->demo ? NULL : d->source->geometry,
+                      g_steal_pointer (&input->structure),
+                      g_steal_pointer (&input->hessian), modes);
+  g_task_return_pointer (task, doc, g_object_unref);
+}
+
+void
+qv_document_load_async (const QvDocumentSource *source, GCancellable *cancellable,
+                        QvDocumentProgressFunc progress, gpointer progress_data,
+                        GAsyncReadyCallback callback, gpointer user_data)
+{
+  g_autoptr(GTask) task = g_task_new (NULL, cancellable, callback, user_data);
+  LoadData *d = g_new0 (LoadData, 1);
+
+  d->source = qv_document_source_copy (source);
+  d->relay.task = task;
+  d->relay.context = g_main_context_ref_thread_default ();
+  d->relay.func = progress;
+  d->relay.user_data = progress_data;
+  g_task_set_source_tag (task, qv_document_load_async);
+  g_task_set_task_data (task, d, load_data_free);
+  /* LAPACK cannot be interrupted: a cancelled load returns at once and the
+   * worker's result is dropped when it ends. */
+  g_task_set_return_on_cancel (task, TRUE);
+  g_task_run_in_thread (task, load_thread);
+}
+
+QvDocument *
+qv_document_load_finish (GAsyncResult *result, GError **error)
+{
+  g_return_val_if_fail (g_task_is_valid (result, NULL), NULL);
+  return g_task_propagate_pointer (G_TASK (result), error);
+}
+
+/* ---- re-solving ---- */
+
+typedef struct {
+  QvStructure *structure;
+  Relay relay;
+} SolveData;
+
+static void
+solve_data_free (gpointer data)
+{
+  SolveData *d = data;
+  g_clear_pointer (&d->structure, qv_structure_free);
+  g_main_context_unref (d->relay.context);
+  g_free (d);
+}
+
+static void
+solve_thread (GTask *task, gpointer source_object, gpointer task_data, GCancellable *cancellable)
+{
+  QvDocument *doc = source_object;   /* kept alive by the task */
+  SolveData *d = task_data;
+  QvProgress progress = { relay_progress, &d->relay };
+  GError *error = NULL;
+  QvModeSet *modes = solve_copy (d->structure, doc->hessian, &progress, &error);
+
+  if (modes == NULL)
+    g_task_return_error (task, error);
+  else
+    g_task_return_pointer (task, modes, (GDestroyNotify) qv_mode_set_free);
+}
+
+void
+qv_document_solve_async (QvDocument *doc, QvStructure *structure, GCancellable *cancellable,
+                         QvDocumentProgressFunc progress, gpointer progress_data,
+                         GAsyncReadyCallback callback, gpointer user_data)
+{
+  g_autoptr(GTask) task = g_task_new (doc, cancellable, callback, user_data);
+  SolveData *d = g_new0 (SolveData, 1);
+
+  d->structure = structure;
+  d->relay.task = task;
+  d->relay.context = g_main_context_ref_thread_default ();
+  d->relay.func = progress;
+  d->relay.user_data = progress_data;
+  g_task_set_source_tag (task, qv_document_solve_async);
+  g_task_set_task_data (task, d, solve_data_free);
+  if (doc->hessian == NULL || structure == NULL || structure->n_atoms != doc->structure->n_atoms)
+    {
+      g_task_return_new_error (task, QV_ERROR, QV_ERROR_INPUT, "%s",
+                               doc->hessian == NULL
+                               ? _("This file holds precomputed modes, not a Hessian: masses cannot be changed")
+                               : _("The new masses do not match the structure"));
+      return;
+    }
+  g_task_set_return_on_cancel (task, TRUE);
+  g_task_run_in_thread (task, solve_thread);
+}
+
+gboolean
+qv_document_solve_finish (QvDocument *doc, GAsyncResult *result, GError **error)
+{
+  GTask *task = G_TASK (result);
+  SolveData *d = g_task_get_task_data (task);
+  QvModeSet *modes = g_task_propagate_pointer (task, error);
+
+  if (modes == NULL)
+    return FALSE;
+  g_clear_pointer (&doc->structure, qv_structure_free);
+  doc->structure = g_steal_pointer (&d->structure);
+  g_clear_pointer (&doc->modes, qv_mode_set_free);
+  doc->modes = modes;
+  g_signal_emit (doc, signals[CHANGED], 0);
+  return TRUE;
+}
+
+const char *qv_document_get_name (QvDocument *doc) { return doc->name; }
+const char *qv_document_get_path (QvDocument *doc) { return doc->path; }
+const QvStructure *qv_document_get_structure (QvDocument *doc) { return doc->structure; }
+const QvStructure *qv_document_get_original (QvDocument *doc) { return doc->original; }
+const QvModeSet *qv_document_get_modes (QvDocument *doc) { return doc->modes; }
+gboolean qv_document_has_hessian (QvDocument *doc) { return doc->hessian != NULL; }
+
+gboolean
+qv_document_get_masses_edited (QvDocument *doc)
+{
+  for (gsize a = 0; a < doc->structure->n_atoms; a++)
+    if (doc->structure->atoms[a].mass != doc->original->atoms[a].mass)
+      return TRUE;
+  return FALSE;
+}

@@ -1,0 +1,67 @@
+/* qv-document.h — what one window shows: a structure, its Hessian as read
+ * and the normal modes solved from it, with loading and re-solving on a
+ * worker thread (progress, cancel). All numbers come from the core.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#pragma once
+#include <gio/gio.h>
+#include "qv-input.h"
+#include "qv-mode-set.h"
+#include "qv-structure.h"
+
+G_BEGIN_DECLS
+
+#define QV_TYPE_DOCUMENT (qv_document_get_type ())
+G_DECLARE_FINAL_TYPE (QvDocument, qv_document, QV, DOCUMENT, GObject)
+
+/* Called on the main context, at most every 50 ms: @fraction in [0, 1], or
+ * negative when the work cannot say how far it is (reading). */
+typedef void (*QvDocumentProgressFunc) (double fraction, const char *stage, gpointer user_data);
+
+/* What to read: a bundle, a geometry with its Hessian, or the demo. */
+typedef struct {
+  char *geometry;
+  gboolean demo;
+  char *hessian;
+  char *hessian_units;
+  char *hessian_layout;
+} QvDocumentSource;
+
+QvDocumentSource *qv_document_source_copy (const QvDocumentSource *source);
+void qv_document_source_free (QvDocumentSource *source);
+G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvDocumentSource, qv_document_source_free)
+
+/* Reads and solves on a worker thread. Cancelling returns at once (the
+ * worker is abandoned and its result discarded when it ends). */
+void qv_document_load_async (const QvDocumentSource *source, GCancellable *cancellable,
+                             QvDocumentProgressFunc progress, gpointer progress_data,
+                             GAsyncReadyCallback callback, gpointer user_data);
+QvDocument *qv_document_load_finish (GAsyncResult *result, GError **error);
+
+/* A document from what is already in memory (takes @structure and @hessian;
+ * solves on the calling thread). For tests and benchmarks. */
+QvDocument *qv_document_new_solved (const char *name, QvStructure *structure,
+                                    QvHessian *hessian, GError **error);
+
+const char *qv_document_get_name (QvDocument *doc);
+/* The file the document came from, NULL for the demo. */
+const char *qv_document_get_path (QvDocument *doc);
+const QvStructure *qv_document_get_structure (QvDocument *doc);
+const QvModeSet *qv_document_get_modes (QvDocument *doc);
+/* FALSE for precomputed modes: then masses cannot be changed. */
+gboolean qv_document_has_hessian (QvDocument *doc);
+/* TRUE when some mass differs from the one the file gave. */
+gboolean qv_document_get_masses_edited (QvDocument *doc);
+/* The masses as loaded. */
+const QvStructure *qv_document_get_original (QvDocument *doc);
+
+/* Solves again with the masses of @structure (taken; same atoms) from a
+ * copy of the Hessian as read, on a worker thread; on success the document
+ * takes the new structure and modes and emits ::changed. A cancelled or
+ * failed solve leaves the document as it was. */
+void qv_document_solve_async (QvDocument *doc, QvStructure *structure,
+                              GCancellable *cancellable,
+                              QvDocumentProgressFunc progress, gpointer progress_data,
+                              GAsyncReadyCallback callback, gpointer user_data);
+gboolean qv_document_solve_finish (QvDocument *doc, GAsyncResult *result, GError **error);
+
+G_END_DECLS

@@ -1,0 +1,56 @@
+/* qv-mode-view.h — the 3D view: a GtkGLArea that draws the structure and
+ * the selected mode through the renderer (src/render), animates it from the
+ * frame clock, and turns mouse and touchpad input into camera moves and
+ * atom picks.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#pragma once
+#include <gtk/gtk.h>
+#include "qv-structure.h"
+
+G_BEGIN_DECLS
+
+#define QV_TYPE_MODE_VIEW (qv_mode_view_get_type ())
+G_DECLARE_FINAL_TYPE (QvModeView, qv_mode_view, QV, MODE_VIEW, GtkWidget)
+
+/* Shows @structure (copied); @fit re-centres the camera on it. Clears the
+ * mode. */
+void qv_mode_view_set_structure (QvModeView *self, const QvStructure *structure, gboolean fit);
+/* The mode's Cartesian displacement field (3N floats, Å per unit Q), the
+ * per-atom colouring weights in [0, 1] (N floats, may be NULL) and the Q
+ * shown; NULL @displacement clears. Copied. */
+void qv_mode_view_set_mode (QvModeView *self, const float *displacement, const float *participation,
+                            double amplitude);
+void qv_mode_view_set_amplitude (QvModeView *self, double amplitude);
+double qv_mode_view_get_amplitude (QvModeView *self);
+
+/* Animation. Property "playing"; "speed" in cycles per second. */
+gboolean qv_mode_view_get_playing (QvModeView *self);
+void qv_mode_view_set_playing (QvModeView *self, gboolean playing);
+/* Phase φ in radians, in [0, 2π). */
+double qv_mode_view_get_phase (QvModeView *self);
+void qv_mode_view_set_phase (QvModeView *self, double phase);
+/* Advances the phase by @seconds at the current speed, as the frame clock
+ * does (deterministic, for tests). */
+void qv_mode_view_step (QvModeView *self, double seconds);
+
+/* Properties "show-arrows", "participation-colouring", "orthographic",
+ * "dark" (background). */
+void qv_mode_view_set_dark (QvModeView *self, gboolean dark);
+
+/* Camera. @axis is a QvViewAxis. */
+void qv_mode_view_view_along (QvModeView *self, int axis);
+void qv_mode_view_reset (QvModeView *self);
+void qv_mode_view_set_highlight (QvModeView *self, gssize atom);
+
+/* The atom drawn under widget point (x, y) at the current phase, or −1.
+ * Signal "atom-activated" (guint atom, double x, double y) on a click. */
+gssize qv_mode_view_pick (QvModeView *self, double x, double y);
+/* Where atom @atom is drawn, in widget coordinates; FALSE when unknown. */
+gboolean qv_mode_view_project_atom (QvModeView *self, gsize atom, double *x, double *y);
+
+/* Frames drawn so far, and TRUE when the renderer draws (FALSE: the view
+ * only clears, because the build has no renderer or GL failed). */
+guint qv_mode_view_get_frames (QvModeView *self);
+gboolean qv_mode_view_has_renderer (QvModeView *self);
+
+G_END_DECLS

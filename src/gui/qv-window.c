@@ -1,0 +1,758 @@
+/* qv-window.c — the main window.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <adwaita.h>
+#include <glib/gi18n.h>
+#include "qv-config.h"
+#include <math.h>
+#include "qv-atom-popover.h"
+#include "qv-error.h"
+#include "qv-hessian-dialog.h"
+#include "qv-preferences.h"
+#include "qv-welcome-page.h"
+#include "qv-window.h"
+#include "qv-window-actions.h"
+#include "qv-window-private.h"
+
+struct _QvWindow
+{
+  GtkApplicationWindow parent_instance;
+
+  GtkLabel *title_label;
+  GtkLabel *subtitle_label;
+  GtkToggleButton *play_button;
+  GtkRevealer *progress_revealer;
+  GtkLabel *progress_label;
+  GtkProgressBar *progress_bar;
+  GtkStack *stack;
+  QvWelcomePage *welcome_page;
+  GtkPaned *paned;
+  QvModeView *mode_view;
+  QvMotionBar *motion_bar;
+  QvModePanel *mode_panel;
+  QvModeDetail *mode_detail;
+  GtkRevealer *export_revealer;
+  QvAtomPopover *atom_popover;
+
+  QvDocument *document;
+  GCancellable *job;           /* the running load or solve, or NULL */
+  guint pulse_id;
+  GtkWindow *error_dialog;
+  QvPreferences *prefs;
+  gulong changed_id;
+};
+
+G_DEFINE_FINAL_TYPE (QvWindow, qv_window, GTK_TYPE_APPLICATION_WINDOW)
+
+/* ---- the selected mode ---- */
+
+static void
+show_selected_mode (QvWindow *self)
+{
+  const int k = qv_mode_panel_get_selected (self->mode_panel);
+  const QvModeSet *modes = self->document ? qv_document_get_modes (self->document) : NULL;
+
+  qv_mode_detail_show (self->mode_detail, self->document, k);
+  if (modes == NULL || k < 0)
+    {
+      qv_mode_view_set_mode (self->mode_view, NULL, NULL, 0.0);
+      qv_motion_bar_set_mode (self->motion_bar, NULL, -1, 0);
+      return;
+    }
+  {
+    const gsize n = modes->n_atoms;
+    g_autofree double *cart = g_new (double, 3 * n);
+    g_autofree double *part = g_new (double, n);
+    g_autofree float *cart_f = g_new (float, 3 * n);
+    g_autofree float *part_f = g_new (float, n);
+    double largest = 0.0;
+    const guint level = qv_mode_panel_get_level (self->mode_panel);
+    const double amplitude = qv_mode_set_display_amplitude (modes, (gsize) k, level,
+                                                            qv_motion_bar_get_amplitude (self->motion_bar),
+                                                            NULL);
+
+    qv_mode_set_cartesian (modes, (gsize) k, cart);
+    qv_mode_set_participation (modes, (gsize) k, part);
+    for (gsize a = 0; a < n; a++)
+      largest = MAX (largest, part[a]);
+    for (gsize i = 0; i < 3 * n; i++)
+      cart_f[i] = (float) cart[i];
+    /* The colour ramp spans this mode's own range. */
+    for (gsize a = 0; a < n; a++)
+      part_f[a] = largest > 0.0 ? (float) (part[a] / largest) : 0.0f;
+    qv_mode_view_set_mode (self->mode_view, cart_f, part_f, amplitude);
+    qv_motion_bar_set_mode (self->motion_bar, modes, k, level);
+  }
+}
+
+static void
+amplitude_changed (QvWindow *self)
+{
+  const int k = qv_mode_panel_get_selected (self->mode_panel);
+  const QvModeSet *modes = self->document ? qv_document_get_modes (self->document) : NULL;
+
+  if (modes == NULL || k < 0)
+    return;
+  qv_mode_view_set_amplitude (self->mode_view,
+                              qv_mode_set_display_amplitude (modes, (gsize) k,
+                                                             qv_mode_panel_get_level (self->mode_panel),
+                                                             qv_motion_bar_get_amplitude (self->motion_bar),
+                                                             NULL));
+  qv_motion_bar_set_mode (self->motion_bar, modes, k, qv_mode_panel_get_level (self->mode_panel));
+}
+
+static void
+update_title (QvWindow *self)
+{
+  g_autofree char *formula = NULL;
+  g_autofree char *subtitle = NULL;
+
+  if (self->document == NULL)
+    {
+      gtk_label_set_label (self->title_label, _("Quaver"));
+      gtk_widget_set_visible (GTK_WIDGET (self->subtitle_label), FALSE);
+      gtk_window_set_title (GTK_WINDOW (self), _("Quaver"));
+      return;
+    }
+  formula = qv_structure_formula (qv_document_get_structure (self->document));
+  subtitle = qv_document_get_masses_edited (self->document)
+             /* TRANSLATORS: subtitle, e.g. "C2H6O · masses edited" */
+             ? g_strdup_printf (_("%s · masses edited"), formula)
+             : g_strdup (formula);
+  gtk_label_set_label (self->title_label, qv_document_get_name (self->document));
+  gtk_label_set_label (self->subtitle_label, subtitle);
+  gtk_widget_set_visible (GTK_WIDGET (self->subtitle_label), TRUE);
+  gtk_window_set_title (GTK_WINDOW (self), qv_document_get_name (self->document));
+}
+
+static void
+document_changed (QvWindow *self)
+{
+  /* Same atoms, new masses: the selection stays on the same index. */
+  const int k = qv_mode_panel_get_selected (self->mode_panel);
+
+  qv_mode_panel_set_document (self->mode_panel, self->document);
+  qv_mode_panel_select (self->mode_panel, k);
+  qv_mode_view_set_structure (self->mode_view, qv_document_get_structure (self->document), FALSE);
+  show_selected_mode (self);
+  update_title (self);
+  qv_window_actions_update (self);
+}
+
+void
+qv_window_set_document (QvWindow *self, QvDocument *doc)
+{
+  if (self->document)
+    g_clear_signal_handler (&self->changed_id, self->document);
+  g_set_object (&self->document, doc);
+  gtk_popover_popdown (GTK_POPOVER (self->atom_popover));
+  if (doc == NULL)
+    {
+      gtk_stack_set_visible_child_name (self->stack, "welcome");
+      update_title (self);
+      qv_window_actions_update (self);
+      return;
+    }
+  self->changed_id = g_signal_connect_swapped (doc, "changed", G_CALLBACK (document_changed), self);
+  qv_mode_panel_set_document (self->mode_panel, doc);
+  qv_mode_view_set_structure (self->mode_view, qv_document_get_structure (doc), TRUE);
+  qv_mode_panel_select (self->mode_panel, 0);
+  show_selected_mode (self);
+  update_title (self);
+  gtk_stack_set_visible_child_name (self->stack, "document");
+  qv_window_actions_update (self);
+  gtk_widget_grab_focus (GTK_WIDGET (self->mode_panel));
+}
+
+/* ---- jobs: progress strip, cancel ---- */
+
+static gboolean
+pulse (gpointer data)
+{
+  gtk_progress_bar_pulse (QV_WINDOW (data)->progress_bar);
+  return G_SOURCE_CONTINUE;
+}
+
+static void
+job_progress (double fraction, const char *stage, gpointer data)
+{
+  QvWindow *self = data;
+  g_autofree char *text = g_strdup_printf ("%s…", g_dgettext (GETTEXT_PACKAGE, stage));
+
+  gtk_label_set_label (self->progress_label, text);
+  if (fraction < 0.0)
+    {
+      if (self->pulse_id == 0)
+        self->pulse_id = g_timeout_add (100, pulse, self);
+    }
+  else
+    {
+      g_clear_handle_id (&self->pulse_id, g_source_remove);
+      gtk_progress_bar_set_fraction (self->progress_bar, CLAMP (fraction, 0.0, 1.0));
+    }
+}
+
+static GCancellable *
+job_begin (QvWindow *self, const char *what)
+{
+  qv_window_cancel (self);
+  self->job = g_cancellable_new ();
+  gtk_label_set_label (self->progress_label, what);
+  gtk_progress_bar_set_fraction (self->progress_bar, 0.0);
+  gtk_revealer_set_reveal_child (self->progress_revealer, TRUE);
+  qv_window_actions_update (self);
+  return self->job;
+}
+
+/* Ends the job whose cancellable is @job; FALSE when a newer one runs. */
+static gboolean
+job_end (QvWindow *self, GCancellable *job)
+{
+  if (self->job != job)
+    return FALSE;
+  g_clear_object (&self->job);
+  g_clear_handle_id (&self->pulse_id, g_source_remove);
+  gtk_revealer_set_reveal_child (self->progress_revealer, FALSE);
+  qv_window_actions_update (self);
+  return TRUE;
+}
+
+gboolean
+qv_window_is_busy (QvWindow *self)
+{
+  return self->job != NULL;
+}
+
+void
+qv_window_cancel (QvWindow *self)
+{
+  g_autoptr(GCancellable) job = g_steal_pointer (&self->job);
+
+  if (job == NULL)
+    return;
+  /* The task returns at once (return-on-cancel); its worker's result is
+   * dropped when LAPACK finishes. */
+  g_cancellable_cancel (job);
+  g_clear_handle_id (&self->pulse_id, g_source_remove);
+  gtk_revealer_set_reveal_child (self->progress_revealer, FALSE);
+  qv_window_actions_update (self);
+}
+
+/* ---- errors ---- */
+
+static void
+error_dialog_response (GtkDialog *dialog, int response, gpointer data)
+{
+  QvWindow *self = data;
+  if (self->error_dialog == GTK_WINDOW (dialog))
+    self->error_dialog = NULL;
+  gtk_window_destroy (GTK_WINDOW (dialog));
+}
+
+void
+qv_window_show_error (QvWindow *self, const char *primary, const GError *error)
+{
+  GtkWidget *dialog;
+
+  if (self->error_dialog)
+    gtk_window_destroy (self->error_dialog);
+  dialog = gtk_message_dialog_new (GTK_WINDOW (self),
+                                   GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
+                                   GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE, "%s", primary);
+  gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog), "%s",
+                                            error ? error->message : "");
+  /* The reader's message says file:line:col: select and copy it. */
+  {
+    GtkWidget *area = gtk_message_dialog_get_message_area (GTK_MESSAGE_DIALOG (dialog));
+    for (GtkWidget *c = gtk_widget_get_first_child (area); c; c = gtk_widget_get_next_sibling (c))
+      if (GTK_IS_LABEL (c))
+        gtk_label_set_selectable (GTK_LABEL (c), TRUE);
+  }
+  g_signal_connect (dialog, "response", G_CALLBACK (error_dialog_response), self);
+  self->error_dialog = GTK_WINDOW (dialog);
+  gtk_window_present (GTK_WINDOW (dialog));
+}
+
+GtkWindow *
+qv_window_get_error_dialog (QvWindow *self)
+{
+  return self->error_dialog;
+}
+
+/* ---- loading ---- */
+
+typedef struct {
+  QvWindow *window;
+  GCancellable *job;
+  char *uri;                   /* for the recent list, or NULL */
+} LoadCall;
+
+static void
+load_done (GObject *source, GAsyncResult *result, gpointer data)
+{
+  LoadCall *call = data;
+  QvWindow *self = call->window;
+  g_autoptr(GError) error = NULL;
+  g_autoptr(QvDocument) doc = qv_document_load_finish (result, &error);
+
+  if (job_end (self, call->job))
+    {
+      if (doc)
+        {
+          qv_window_set_document (self, doc);
+          if (call->uri)
+            gtk_recent_manager_add_item (gtk_recent_manager_get_default (), call->uri);
+        }
+      else if (!g_error_matches (error, G_IO_ERROR, G_IO_ERROR_CANCELLED))
+        qv_window_show_error (self, _("The file could not be opened"), error);
+    }
+  g_object_unref (call->window);
+  g_object_unref (call->job);
+  g_free (call->uri);
+  g_free (call);
+}
+
+void
+qv_window_open_source (QvWindow *self, const QvDocumentSource *source)
+{
+  LoadCall *call = g_new0 (LoadCall, 1);
+  g_autofree char *what = NULL;
+
+  if (source->demo)
+    what = g_strdup (_("Opening the demo"));
+  else
+    {
+      g_autofree char *base = g_path_get_basename (source->geometry);
+      /* TRANSLATORS: %s is a file name */
+      what = g_strdup_printf (_("Opening %s"), base);
+    }
+  call->window = g_object_ref (self);
+  call->job = g_object_ref (job_begin (self, what));
+  if (!source->demo)
+    {
+      g_autoptr(GFile) file = g_file_new_for_path (source->geometry);
+      call->uri = g_file_get_uri (file);
+    }
+  qv_document_load_async (source, call->job, job_progress, self, load_done, call);
+}
+
+void
+qv_window_open_demo (QvWindow *self)
+{
+  QvDocumentSource source = { .demo = TRUE };
+  qv_window_open_source (self, &source);
+}
+
+static void
+hessian_chosen (QvHessianDialog *dialog, QvDocumentSource *source, gpointer data)
+{
+  qv_window_open_source (QV_WINDOW (data), source);
+}
+
+void
+qv_window_open_file (QvWindow *self, GFile *file)
+{
+  g_autofree char *path = g_file_get_path (file);
+  GError *error = NULL;
+
+  if (path == NULL)
+    {
+      g_autofree char *uri = g_file_get_uri (file);
+      error = g_error_new (QV_ERROR, QV_ERROR_INPUT, _("%s is not a local file"), uri);
+      qv_window_show_error (self, _("The file could not be opened"), error);
+      g_error_free (error);
+      return;
+    }
+  if (qv_input_is_bundle (path))
+    {
+      QvDocumentSource source = { .geometry = path };
+      qv_window_open_source (self, &source);
+    }
+  else
+    {
+      /* A geometry needs its Hessian and that Hessian's units: ask. */
+      QvHessianDialog *dialog = qv_hessian_dialog_new (GTK_WINDOW (self), path);
+      g_signal_connect_object (dialog, "chosen", G_CALLBACK (hessian_chosen), self, 0);
+      gtk_window_present (GTK_WINDOW (dialog));
+    }
+}
+
+static void
+chooser_response (GtkNativeDialog *chooser, int response, gpointer data)
+{
+  QvWindow *self = data;
+
+  if (response == GTK_RESPONSE_ACCEPT)
+    {
+      g_autoptr(GFile) file = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (chooser));
+      if (file)
+        qv_window_open_file (self, file);
+    }
+  gtk_native_dialog_destroy (chooser);
+  g_object_unref (chooser);
+  g_object_unref (self);
+}
+
+void
+qv_window_choose_file (QvWindow *self)
+{
+  GtkFileChooserNative *chooser =
+    gtk_file_chooser_native_new (_("Open a Bundle or a Geometry"), GTK_WINDOW (self),
+                                 GTK_FILE_CHOOSER_ACTION_OPEN, _("_Open"), _("_Cancel"));
+  GtkFileFilter *filter;
+
+  filter = gtk_file_filter_new ();
+  gtk_file_filter_set_name (filter, _("Bundles and geometries"));
+  gtk_file_filter_add_pattern (filter, "*.quaver.json");
+  gtk_file_filter_add_pattern (filter, "*.json");
+  gtk_file_filter_add_pattern (filter, "*.xyz");
+  gtk_file_filter_add_pattern (filter, "*.extxyz");
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), filter);
+  g_object_unref (filter);
+  filter = gtk_file_filter_new ();
+  gtk_file_filter_set_name (filter, _("Quaver bundles (*.quaver.json)"));
+  gtk_file_filter_add_pattern (filter, "*.quaver.json");
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), filter);
+  g_object_unref (filter);
+  filter = gtk_file_filter_new ();
+  gtk_file_filter_set_name (filter, _("XYZ geometries (*.xyz)"));
+  gtk_file_filter_add_pattern (filter, "*.xyz");
+  gtk_file_filter_add_pattern (filter, "*.extxyz");
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), filter);
+  g_object_unref (filter);
+  filter = gtk_file_filter_new ();
+  gtk_file_filter_set_name (filter, _("All files"));
+  gtk_file_filter_add_pattern (filter, "*");
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), filter);
+  g_object_unref (filter);
+
+  gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
+  g_signal_connect (chooser, "response", G_CALLBACK (chooser_response), g_object_ref (self));
+  gtk_native_dialog_show (GTK_NATIVE_DIALOG (chooser));
+}
+
+static gboolean
+files_dropped (GtkDropTarget *target, const GValue *value, double x, double y, gpointer data)
+{
+  QvWindow *self = data;
+  GSList *files = g_value_get_boxed (value);
+
+  if (files == NULL)
+    return FALSE;
+  /* One document per window: the first file here, the rest in new ones. */
+  qv_window_open_file (self, files->data);
+  for (GSList *l = files->next; l; l = l->next)
+    {
+      GtkApplication *app = gtk_window_get_application (GTK_WINDOW (self));
+      QvWindow *other = qv_window_new (app);
+      gtk_window_present (GTK_WINDOW (other));
+      qv_window_open_file (other, l->data);
+    }
+  return TRUE;
+}
+
+/* ---- masses ---- */
+
+typedef struct {
+  QvWindow *window;
+  GCancellable *job;
+} SolveCall;
+
+static void
+solve_done (GObject *source, GAsyncResult *result, gpointer data)
+{
+  SolveCall *call = data;
+  g_autoptr(GError) error = NULL;
+  const gboolean ok = qv_document_solve_finish (QV_DOCUMENT (source), result, &error);
+
+  if (job_end (call->window, call->job) && !ok
+      && !g_error_matches (error, G_IO_ERROR, G_IO_ERROR_CANCELLED))
+    qv_window_show_error (call->window, _("The modes could not be solved with these masses"), error);
+  g_object_unref (call->window);
+  g_object_unref (call->job);
+  g_free (call);
+}
+
+void
+qv_window_solve_masses (QvWindow *self, QvStructure *structure)
+{
+  SolveCall *call;
+
+  if (self->document == NULL)
+    {
+      qv_structure_free (structure);
+      return;
+    }
+  call = g_new0 (SolveCall, 1);
+  call->window = g_object_ref (self);
+  call->job = g_object_ref (job_begin (self, _("Solving with the new masses")));
+  qv_document_solve_async (self->document, structure, call->job, job_progress, self,
+                           solve_done, call);
+}
+
+static void
+edit_mass (QvWindow *self, gsize atom, guint mass_number, double mass)
+{
+  g_autoptr(QvStructure) s = NULL;
+  g_autoptr(GError) error = NULL;
+  gboolean ok;
+
+  if (self->document == NULL)
+    return;
+  s = qv_structure_copy (qv_document_get_structure (self->document));
+  ok = mass_number ? qv_structure_set_isotope (s, atom, mass_number, &error)
+                   : qv_structure_set_mass (s, atom, mass, &error);
+  if (!ok)
+    {
+      qv_window_show_error (self, _("This mass cannot be used"), error);
+      return;
+    }
+  qv_window_solve_masses (self, g_steal_pointer (&s));
+}
+
+void
+qv_window_set_atom_isotope (QvWindow *self, gsize atom, guint mass_number)
+{
+  edit_mass (self, atom, mass_number, 0.0);
+}
+
+void
+qv_window_set_atom_mass (QvWindow *self, gsize atom, double mass)
+{
+  edit_mass (self, atom, 0, mass);
+}
+
+void
+qv_window_reset_masses (QvWindow *self)
+{
+  if (self->document && qv_document_get_masses_edited (self->document))
+    qv_window_solve_masses (self, qv_structure_copy (qv_document_get_original (self->document)));
+}
+
+static void
+mass_chosen (QvAtomPopover *popover, guint atom, guint mass_number, double mass, gpointer data)
+{
+  edit_mass (QV_WINDOW (data), atom, mass_number, mass);
+}
+
+void
+qv_window_show_atom (QvWindow *self, gsize atom, double x, double y)
+{
+  const int k = qv_mode_panel_get_selected (self->mode_panel);
+  double amplitude = 0.0;
+  GdkRectangle rect = { (int) x, (int) y, 1, 1 };
+
+  if (self->document == NULL || atom >= qv_document_get_structure (self->document)->n_atoms)
+    return;
+  if (k >= 0)
+    amplitude = qv_mode_set_display_amplitude (qv_document_get_modes (self->document), (gsize) k,
+                                               qv_mode_panel_get_level (self->mode_panel),
+                                               qv_motion_bar_get_amplitude (self->motion_bar), NULL);
+  qv_atom_popover_show_atom (self->atom_popover, self->document, atom, k, amplitude);
+  gtk_popover_set_pointing_to (GTK_POPOVER (self->atom_popover), &rect);
+  gtk_popover_popup (GTK_POPOVER (self->atom_popover));
+  qv_mode_view_set_highlight (self->mode_view, (gssize) atom);
+}
+
+static void
+atom_popover_closed (QvWindow *self)
+{
+  qv_mode_view_set_highlight (self->mode_view, -1);
+}
+
+static void
+atom_activated (QvModeView *view, guint atom, double x, double y, gpointer data)
+{
+  qv_window_show_atom (QV_WINDOW (data), atom, x, y);
+}
+
+/* ---- navigation ---- */
+
+void
+qv_window_step_mode (QvWindow *self, int delta)
+{
+  qv_mode_panel_step (self->mode_panel, delta);
+}
+
+void
+qv_window_view_along (QvWindow *self, int axis)
+{
+  qv_mode_view_view_along (self->mode_view, axis);
+}
+
+void
+qv_window_reset_view (QvWindow *self)
+{
+  qv_mode_view_reset (self->mode_view);
+}
+
+static void
+play_changed (QvWindow *self)
+{
+  gtk_button_set_icon_name (GTK_BUTTON (self->play_button),
+                            qv_mode_view_get_playing (self->mode_view)
+                            ? "media-playback-pause-symbolic" : "media-playback-start-symbolic");
+}
+
+/* ---- background follows the desktop unless chosen ---- */
+
+static void
+background_changed (QvWindow *self)
+{
+  QvBackgroundChoice choice;
+  gboolean dark;
+
+  g_object_get (self->prefs, "background", &choice, NULL);
+  if (choice == QV_BACKGROUND_CHOICE_SYSTEM)
+    dark = adw_style_manager_get_dark (adw_style_manager_get_default ());
+  else
+    dark = choice == QV_BACKGROUND_CHOICE_DARK;
+  qv_mode_view_set_dark (self->mode_view, dark);
+}
+
+/* ---- life cycle ---- */
+
+static gboolean
+qv_window_close_request (GtkWindow *window)
+{
+  QvWindow *self = QV_WINDOW (window);
+  int width, height;
+
+  qv_window_cancel (self);
+  gtk_window_get_default_size (window, &width, &height);
+  g_object_set (self->prefs,
+                "window-maximized", gtk_window_is_maximized (window),
+                NULL);
+  if (!gtk_window_is_maximized (window))
+    g_object_set (self->prefs, "window-width", MAX (width, 400), "window-height", MAX (height, 300), NULL);
+  return GTK_WINDOW_CLASS (qv_window_parent_class)->close_request (window);
+}
+
+static void
+qv_window_dispose (GObject *object)
+{
+  QvWindow *self = QV_WINDOW (object);
+
+  qv_window_cancel (self);
+  if (self->document)
+    g_clear_signal_handler (&self->changed_id, self->document);
+  g_clear_object (&self->document);
+  if (self->atom_popover)
+    {
+      gtk_widget_unparent (GTK_WIDGET (self->atom_popover));
+      self->atom_popover = NULL;
+    }
+  gtk_widget_dispose_template (GTK_WIDGET (self), QV_TYPE_WINDOW);
+  G_OBJECT_CLASS (qv_window_parent_class)->dispose (object);
+}
+
+static void
+qv_window_class_init (QvWindowClass *klass)
+{
+  GObjectClass *object_class = G_OBJECT_CLASS (klass);
+  GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
+
+  object_class->dispose = qv_window_dispose;
+  GTK_WINDOW_CLASS (klass)->close_request = qv_window_close_request;
+
+  g_type_ensure (QV_TYPE_WELCOME_PAGE);
+  g_type_ensure (QV_TYPE_MODE_VIEW);
+  g_type_ensure (QV_TYPE_MOTION_BAR);
+  g_type_ensure (QV_TYPE_MODE_PANEL);
+  g_type_ensure (QV_TYPE_MODE_DETAIL);
+  gtk_widget_class_set_template_from_resource (widget_class, "/org/quaverlab/Quaver/gui/qv-window.ui");
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, title_label);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, subtitle_label);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, play_button);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, progress_revealer);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, progress_label);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, progress_bar);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, stack);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, welcome_page);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, paned);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, mode_view);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, motion_bar);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, mode_panel);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, mode_detail);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, export_revealer);
+}
+
+static void
+qv_window_init (QvWindow *self)
+{
+  GtkDropTarget *drop;
+  int width, height;
+  gboolean maximized;
+
+  gtk_widget_init_template (GTK_WIDGET (self));
+  self->prefs = qv_preferences_get_default ();
+
+  g_object_get (self->prefs, "window-width", &width, "window-height", &height,
+                "window-maximized", &maximized, NULL);
+  gtk_window_set_default_size (GTK_WINDOW (self), width, height);
+  if (maximized)
+    gtk_window_maximize (GTK_WINDOW (self));
+
+  /* Preferences drive the view and the list. */
+  g_object_bind_property (self->prefs, "show-arrows", self->mode_view, "show-arrows", G_BINDING_SYNC_CREATE);
+  g_object_bind_property (self->prefs, "participation-colouring", self->mode_view, "participation-colouring",
+                          G_BINDING_SYNC_CREATE);
+  g_object_bind_property (self->prefs, "orthographic", self->mode_view, "orthographic", G_BINDING_SYNC_CREATE);
+  g_object_bind_property (self->prefs, "speed", self->motion_bar, "speed",
+                          G_BINDING_SYNC_CREATE | G_BINDING_BIDIRECTIONAL);
+  g_object_bind_property (self->prefs, "amplitude", self->motion_bar, "amplitude",
+                          G_BINDING_SYNC_CREATE | G_BINDING_BIDIRECTIONAL);
+  g_object_bind_property (self->motion_bar, "speed", self->mode_view, "speed", G_BINDING_SYNC_CREATE);
+  g_object_bind_property (self->prefs, "wavenumber-unit", self->mode_panel, "unit", G_BINDING_SYNC_CREATE);
+  {
+    guint level;
+    g_object_get (self->prefs, "default-level", &level, NULL);
+    qv_mode_panel_set_level (self->mode_panel, level);
+  }
+  g_signal_connect_object (self->prefs, "notify::background", G_CALLBACK (background_changed), self,
+                           G_CONNECT_SWAPPED);
+  g_signal_connect_object (adw_style_manager_get_default (), "notify::dark", G_CALLBACK (background_changed),
+                           self, G_CONNECT_SWAPPED);
+  background_changed (self);
+
+  g_signal_connect_object (self->mode_panel, "notify::selected", G_CALLBACK (show_selected_mode), self,
+                           G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->mode_panel, "notify::level", G_CALLBACK (amplitude_changed), self,
+                           G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->motion_bar, "notify::amplitude", G_CALLBACK (amplitude_changed), self,
+                           G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->mode_view, "notify::playing", G_CALLBACK (play_changed), self,
+                           G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->mode_view, "atom-activated", G_CALLBACK (atom_activated), self, 0);
+  play_changed (self);
+
+  self->atom_popover = qv_atom_popover_new ();
+  gtk_widget_set_parent (GTK_WIDGET (self->atom_popover), GTK_WIDGET (self->mode_view));
+  g_signal_connect_object (self->atom_popover, "mass-chosen", G_CALLBACK (mass_chosen), self, 0);
+  g_signal_connect_object (self->atom_popover, "closed", G_CALLBACK (atom_popover_closed), self,
+                           G_CONNECT_SWAPPED);
+
+  drop = gtk_drop_target_new (GDK_TYPE_FILE_LIST, GDK_ACTION_COPY);
+  g_signal_connect (drop, "drop", G_CALLBACK (files_dropped), self);
+  gtk_widget_add_controller (GTK_WIDGET (self), GTK_EVENT_CONTROLLER (drop));
+
+  qv_window_actions_install (self);
+  qv_window_actions_update (self);
+}
+
+QvWindow *
+qv_window_new (GtkApplication *app)
+{
+  return g_object_new (QV_TYPE_WINDOW, "application", app, NULL);
+}
+
+QvDocument *qv_window_get_document (QvWindow *self) { return self->document; }
+QvModePanel *qv_window_get_mode_panel (QvWindow *self) { return self->mode_panel; }
+QvModeView *qv_window_get_mode_view (QvWindow *self) { return self->mode_view; }
+QvMotionBar *qv_window_get_motion_bar (QvWindow *self) { return self->motion_bar; }
+QvModeDetail *qv_window_get_mode_detail (QvWindow *self) { return self->mode_detail; }
+
+GtkRevealer *
+qv_window_get_export_revealer (QvWindow *self)
+{
+  return self->export_revealer;
+}
