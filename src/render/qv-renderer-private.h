@@ -18,3 +18,25 @@ GLuint qv_shader_program_from_source (const char *vert_name, const char *vert_so
 GLuint qv_shader_program_load (const char *name, GError **error);
 
 G_END_DECLS
+
+G_BEGIN_DECLS
+
+/* Glyphs for atom labels (element symbols and digits) rasterised once with
+ * pangocairo: red channel the glyph, green a halo around it. */
+typedef struct {
+  gboolean present;
+  float uv[4];        /* u0 v0 u1 v1, v0 the top */
+  float advance;      /* pen advance, in label heights */
+  float pad;          /* halo margin on each side, in label heights */
+} QvGlyph;
+
+typedef struct {
+  int width, height;  /* pixels */
+  guint8 *rg;         /* width × height × 2, top row first */
+  QvGlyph glyphs[128];
+} QvLabelAtlas;
+
+QvLabelAtlas *qv_label_atlas_new (void);
+void qv_label_atlas_free (QvLabelAtlas *atlas);
+
+G_END_DECLS

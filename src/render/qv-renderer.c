@@ -1,39 +1,762 @@
-/* qv-renderer.c — impostor spheres and cylinders, arrows, cell, labels
- * (in progress: the skeleton fails to create until the shaders exist).
+/* qv-renderer.c — a structure and one animated mode with OpenGL 3.3 core:
+ * impostor spheres and cylinders, arrows, cell edges and labels, each one
+ * instanced draw call. The atoms' rest positions and displacement field
+ * live in a texture buffer uploaded once per mode; per frame only the
+ * phase changes (one small uniform block).
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <epoxy/gl.h>
+#include <math.h>
+#include <string.h>
+#include "qv-bonds.h"
+#include "qv-element.h"
 #include "qv-renderer.h"
 #include "qv-renderer-private.h"
+
+enum { PROG_SPHERE, PROG_CYLINDER, PROG_ARROW, PROG_LINE, PROG_LABEL, N_PROGRAMS };
+static const char *const program_names[N_PROGRAMS] = {
+  "sphere", "cylinder", "arrow", "line", "label",
+};
+
+#define ARROW_SEGMENTS 12
+
+/* Mirrors the std140 block Frame in shaders/common.glsl. */
+typedef struct {
+  float view[16];
+  float proj[16];
+  float light[4];
+  float bg[4];
+  float fg[4];
+  float accent[4];
+  float cue[4];
+  float viewport[4];
+  float phase;
+  float atom_scale;
+  float bond_radius;
+  gint32 highlight;
+  float ortho;
+  float label_px;
+  float arrow_scale;
+  float pad0;
+} FrameBlock;
+
+G_STATIC_ASSERT (sizeof (FrameBlock) == 256);
+
+typedef struct {
+  guint32 atom;
+  float uv[4];
+  float offset[2];
+} LabelGlyph;
+
+struct _QvRenderer {
+  GLuint programs[N_PROGRAMS];
+  GLuint ubo;
+  GLuint atom_buffer, atom_texture;       /* 3 RGBA32F texels per atom */
+  GLuint colour_buffer, colour_texture;   /* 1 RGBA8 texel per atom */
+  GLuint sphere_vao;
+  GLuint bond_vao, bond_buffer;
+  GLuint arrow_vao, arrow_mesh, arrow_indices, arrow_buffer;
+  GLsizei arrow_n_indices;
+  GLuint cell_vao, cell_buffer;
+  GLuint label_vao, label_buffer, atlas_texture;
+  QvLabelAtlas *atlas;
+
+  gsize n_atoms, n_bonds, n_arrows, n_label_glyphs;
+  gboolean has_cell;
+  guint *z;
+  float *rest;                 /* 3N, Å */
+  float *re, *im;              /* 3N, Å, amplitude included; NULL: none */
+  float *style_radii;          /* N, from the style table */
+  float *radii;                /* N, as drawn */
+  float *participation;        /* N in [0, 1] relative to the largest, or NULL */
+  float *positions;            /* 3N at the current phase, on demand */
+  gboolean positions_valid;
+  float centre[3], extent;     /* bounding sphere, for depth cueing */
+  float phase;
+  gssize highlight;
+  QvRenderOptions options;
+};
 
 void
 qv_render_options_init (QvRenderOptions *options)
 {
   *options = (QvRenderOptions) {
-    .bonds = TRUE, .arrows = TRUE, .cell = TRUE, .labels = FALSE,
-    .colouring = QV_COLOUR_ELEMENT, .background = QV_BACKGROUND_LIGHT,
-    .atom_scale = 1.0f, .arrow_scale = 2.0f, .arrow_threshold = 0.01f,
-    .depth_cue = TRUE, .bond_radius = 0.14f,
+    .bonds = TRUE,
+    .arrows = TRUE,
+    .cell = TRUE,
+    .labels = FALSE,
+    .colouring = QV_COLOUR_ELEMENT,
+    .background = QV_BACKGROUND_LIGHT,
+    .atom_scale = 1.0f,
+    .arrow_scale = 2.5f,
+    .arrow_threshold = 0.02f,
+    .depth_cue = TRUE,
+    .bond_radius = 0.13f,
   };
+}
+
+static void
+setup_program (GLuint program)
+{
+  GLuint block = glGetUniformBlockIndex (program, "Frame");
+
+  if (block != GL_INVALID_INDEX)
+    glUniformBlockBinding (program, block, 0);
+  glUseProgram (program);
+  glUniform1i (glGetUniformLocation (program, "u_atoms"), 0);
+  glUniform1i (glGetUniformLocation (program, "u_colours"), 1);
+  glUniform1i (glGetUniformLocation (program, "u_atlas"), 2);
+  glUseProgram (0);
+}
+
+static void
+build_arrow_mesh (QvRenderer *r)
+{
+  float v[(5 * ARROW_SEGMENTS + 1) * 4];
+  GLushort idx[4 * ARROW_SEGMENTS * 3];
+  int nv = 0, ni = 0;
+  const int S = ARROW_SEGMENTS;
+
+#define VERT(c, s, part) (v[4 * nv] = (c), v[4 * nv + 1] = (s), v[4 * nv + 2] = (part), v[4 * nv + 3] = 0, nv++)
+  for (int part = 0; part < 5; part++)
+    {
+      if (part == 3)
+        {
+          VERT (0.0f, 0.0f, 3.0f);
+          continue;
+        }
+      for (int k = 0; k < S; k++)
+        {
+          double a = 2.0 * G_PI * k / S;
+          VERT ((float) cos (a), (float) sin (a), (float) part);
+        }
+    }
+  /* Tips: one per segment, with the segment's middle direction so the
+   * cone's normals stay smooth. */
+  for (int k = 0; k < S; k++)
+    {
+      double a = 2.0 * G_PI * (k + 0.5) / S;
+      VERT ((float) cos (a), (float) sin (a), 5.0f);
+    }
+#undef VERT
+  g_assert (nv == 5 * S + 1);
+  /* Vertex bases: ring 0 at 0, ring 1 at S, ring 2 at 2S, centre 3S,
+   * cone ring 3S+1, tips 4S+1. */
+  for (int k = 0; k < S; k++)
+    {
+      int k1 = (k + 1) % S;
+      GLushort tri[4][3] = {
+        { k, k1, S + k },
+        { S + k, k1, S + k1 },
+        { 3 * S, 2 * S + k1, 2 * S + k },
+        { 3 * S + 1 + k, 3 * S + 1 + k1, 4 * S + 1 + k },
+      };
+      memcpy (idx + ni, tri, sizeof tri);
+      ni += 12;
+    }
+  r->arrow_n_indices = ni;
+
+  glGenVertexArrays (1, &r->arrow_vao);
+  glBindVertexArray (r->arrow_vao);
+  glGenBuffers (1, &r->arrow_mesh);
+  glBindBuffer (GL_ARRAY_BUFFER, r->arrow_mesh);
+  glBufferData (GL_ARRAY_BUFFER, sizeof (float) * 4 * nv, v, GL_STATIC_DRAW);
+  glEnableVertexAttribArray (0);
+  glVertexAttribPointer (0, 4, GL_FLOAT, GL_FALSE, 16, NULL);
+  glGenBuffers (1, &r->arrow_indices);
+  glBindBuffer (GL_ELEMENT_ARRAY_BUFFER, r->arrow_indices);
+  glBufferData (GL_ELEMENT_ARRAY_BUFFER, sizeof (GLushort) * ni, idx, GL_STATIC_DRAW);
+  glGenBuffers (1, &r->arrow_buffer);
+  glBindBuffer (GL_ARRAY_BUFFER, r->arrow_buffer);
+  glBufferData (GL_ARRAY_BUFFER, 16, NULL, GL_DYNAMIC_DRAW);
+  glEnableVertexAttribArray (1);
+  glVertexAttribIPointer (1, 1, GL_UNSIGNED_INT, 4, NULL);
+  glVertexAttribDivisor (1, 1);
+  glBindVertexArray (0);
 }
 
 QvRenderer *
 qv_renderer_new (GError **error)
 {
-  GLuint p = qv_shader_program_load ("sphere", error);
-  if (p == 0)
-    return NULL;
-  return NULL;
+  QvRenderer *r = g_new0 (QvRenderer, 1);
+
+  for (int p = 0; p < N_PROGRAMS; p++)
+    {
+      r->programs[p] = qv_shader_program_load (program_names[p], error);
+      if (r->programs[p] == 0)
+        {
+          qv_renderer_free (r);
+          return NULL;
+        }
+      setup_program (r->programs[p]);
+    }
+  qv_render_options_init (&r->options);
+  r->highlight = -1;
+
+  glGenBuffers (1, &r->ubo);
+  glBindBuffer (GL_UNIFORM_BUFFER, r->ubo);
+  glBufferData (GL_UNIFORM_BUFFER, sizeof (FrameBlock), NULL, GL_DYNAMIC_DRAW);
+
+  glGenBuffers (1, &r->atom_buffer);
+  glBindBuffer (GL_TEXTURE_BUFFER, r->atom_buffer);
+  glBufferData (GL_TEXTURE_BUFFER, 48, NULL, GL_STATIC_DRAW);
+  glGenTextures (1, &r->atom_texture);
+  glBindTexture (GL_TEXTURE_BUFFER, r->atom_texture);
+  glTexBuffer (GL_TEXTURE_BUFFER, GL_RGBA32F, r->atom_buffer);
+  glGenBuffers (1, &r->colour_buffer);
+  glBindBuffer (GL_TEXTURE_BUFFER, r->colour_buffer);
+  glBufferData (GL_TEXTURE_BUFFER, 4, NULL, GL_STATIC_DRAW);
+  glGenTextures (1, &r->colour_texture);
+  glBindTexture (GL_TEXTURE_BUFFER, r->colour_texture);
+  glTexBuffer (GL_TEXTURE_BUFFER, GL_RGBA8, r->colour_buffer);
+  glBindTexture (GL_TEXTURE_BUFFER, 0);
+
+  glGenVertexArrays (1, &r->sphere_vao);
+
+  glGenVertexArrays (1, &r->bond_vao);
+  glBindVertexArray (r->bond_vao);
+  glGenBuffers (1, &r->bond_buffer);
+  glBindBuffer (GL_ARRAY_BUFFER, r->bond_buffer);
+  glBufferData (GL_ARRAY_BUFFER, 16, NULL, GL_STATIC_DRAW);
+  glEnableVertexAttribArray (0);
+  glVertexAttribIPointer (0, 2, GL_UNSIGNED_INT, 8, NULL);
+  glVertexAttribDivisor (0, 1);
+
+  build_arrow_mesh (r);
+
+  glGenVertexArrays (1, &r->cell_vao);
+  glBindVertexArray (r->cell_vao);
+  glGenBuffers (1, &r->cell_buffer);
+  glBindBuffer (GL_ARRAY_BUFFER, r->cell_buffer);
+  glBufferData (GL_ARRAY_BUFFER, 24 * 3 * sizeof (float), NULL, GL_STATIC_DRAW);
+  glEnableVertexAttribArray (0);
+  glVertexAttribPointer (0, 3, GL_FLOAT, GL_FALSE, 12, NULL);
+
+  glGenVertexArrays (1, &r->label_vao);
+  glBindVertexArray (r->label_vao);
+  glGenBuffers (1, &r->label_buffer);
+  glBindBuffer (GL_ARRAY_BUFFER, r->label_buffer);
+  glBufferData (GL_ARRAY_BUFFER, sizeof (LabelGlyph), NULL, GL_STATIC_DRAW);
+  glEnableVertexAttribArray (0);
+  glVertexAttribIPointer (0, 1, GL_UNSIGNED_INT, sizeof (LabelGlyph), NULL);
+  glVertexAttribDivisor (0, 1);
+  glEnableVertexAttribArray (1);
+  glVertexAttribPointer (1, 4, GL_FLOAT, GL_FALSE, sizeof (LabelGlyph),
+                         (void *) G_STRUCT_OFFSET (LabelGlyph, uv));
+  glVertexAttribDivisor (1, 1);
+  glEnableVertexAttribArray (2);
+  glVertexAttribPointer (2, 2, GL_FLOAT, GL_FALSE, sizeof (LabelGlyph),
+                         (void *) G_STRUCT_OFFSET (LabelGlyph, offset));
+  glVertexAttribDivisor (2, 1);
+  glBindVertexArray (0);
+  glBindBuffer (GL_ARRAY_BUFFER, 0);
+  return r;
 }
 
-void qv_renderer_free (QvRenderer *renderer) {}
-void qv_renderer_set_structure (QvRenderer *renderer, const QvStructure *structure) {}
-void qv_renderer_set_mode (QvRenderer *renderer, const float *re, const float *im, float amplitude) {}
-void qv_renderer_set_participation (QvRenderer *renderer, const float *participation) {}
-void qv_renderer_set_phase (QvRenderer *renderer, float phase) {}
-void qv_renderer_set_options (QvRenderer *renderer, const QvRenderOptions *options) {}
-const QvRenderOptions *qv_renderer_get_options (const QvRenderer *renderer) { return NULL; }
-void qv_renderer_set_highlight (QvRenderer *renderer, gssize atom) {}
-void qv_renderer_draw (QvRenderer *renderer, const QvCamera *camera) {}
-const float *qv_renderer_positions (QvRenderer *renderer) { return NULL; }
-const float *qv_renderer_radii (const QvRenderer *renderer) { return NULL; }
-gsize qv_renderer_n_atoms (const QvRenderer *renderer) { return 0; }
-gsize qv_renderer_n_bonds (const QvRenderer *renderer) { return 0; }
+void
+qv_renderer_free (QvRenderer *r)
+{
+  GLuint buffers[10], vaos[5], textures[3];
+
+  if (r == NULL)
+    return;
+  for (int p = 0; p < N_PROGRAMS; p++)
+    if (r->programs[p])
+      glDeleteProgram (r->programs[p]);
+  buffers[0] = r->ubo;
+  buffers[1] = r->atom_buffer;
+  buffers[2] = r->colour_buffer;
+  buffers[3] = r->bond_buffer;
+  buffers[4] = r->arrow_mesh;
+  buffers[5] = r->arrow_indices;
+  buffers[6] = r->arrow_buffer;
+  buffers[7] = r->cell_buffer;
+  buffers[8] = r->label_buffer;
+  buffers[9] = 0;
+  glDeleteBuffers (10, buffers);
+  vaos[0] = r->sphere_vao;
+  vaos[1] = r->bond_vao;
+  vaos[2] = r->arrow_vao;
+  vaos[3] = r->cell_vao;
+  vaos[4] = r->label_vao;
+  glDeleteVertexArrays (5, vaos);
+  textures[0] = r->atom_texture;
+  textures[1] = r->colour_texture;
+  textures[2] = r->atlas_texture;
+  glDeleteTextures (3, textures);
+  qv_label_atlas_free (r->atlas);
+  g_free (r->z);
+  g_free (r->rest);
+  g_free (r->re);
+  g_free (r->im);
+  g_free (r->style_radii);
+  g_free (r->radii);
+  g_free (r->participation);
+  g_free (r->positions);
+  g_free (r);
+}
+
+/* The atom buffer: (rest, style radius), (Re, 0), (Im, 0) per atom. */
+static void
+upload_atoms (QvRenderer *r)
+{
+  gsize n = r->n_atoms;
+  float *data = g_new0 (float, 12 * MAX (n, 1));
+
+  for (gsize i = 0; i < n; i++)
+    {
+      float *t = data + 12 * i;
+      memcpy (t, r->rest + 3 * i, 3 * sizeof (float));
+      t[3] = r->style_radii[i];
+      if (r->re)
+        memcpy (t + 4, r->re + 3 * i, 3 * sizeof (float));
+      if (r->im)
+        memcpy (t + 8, r->im + 3 * i, 3 * sizeof (float));
+    }
+  glBindBuffer (GL_TEXTURE_BUFFER, r->atom_buffer);
+  glBufferData (GL_TEXTURE_BUFFER, 48 * MAX (n, 1), data, GL_STATIC_DRAW);
+  glBindTexture (GL_TEXTURE_BUFFER, r->atom_texture);
+  glTexBuffer (GL_TEXTURE_BUFFER, GL_RGBA32F, r->atom_buffer);
+  glBindTexture (GL_TEXTURE_BUFFER, 0);
+  glBindBuffer (GL_TEXTURE_BUFFER, 0);
+  g_free (data);
+}
+
+static void
+upload_colours (QvRenderer *r)
+{
+  gsize n = r->n_atoms;
+  guint8 *data = g_new0 (guint8, 4 * MAX (n, 1));
+
+  for (gsize i = 0; i < n; i++)
+    {
+      float rgb[3];
+      if (r->options.colouring == QV_COLOUR_PARTICIPATION && r->participation)
+        qv_style_ramp (r->participation[i], rgb);
+      else
+        memcpy (rgb, qv_style_element (r->z[i])->rgb, sizeof rgb);
+      for (int k = 0; k < 3; k++)
+        data[4 * i + k] = (guint8) lroundf (CLAMP (rgb[k], 0.0f, 1.0f) * 255.0f);
+      data[4 * i + 3] = 255;
+    }
+  glBindBuffer (GL_TEXTURE_BUFFER, r->colour_buffer);
+  glBufferData (GL_TEXTURE_BUFFER, 4 * MAX (n, 1), data, GL_STATIC_DRAW);
+  glBindTexture (GL_TEXTURE_BUFFER, r->colour_texture);
+  glTexBuffer (GL_TEXTURE_BUFFER, GL_RGBA8, r->colour_buffer);
+  glBindTexture (GL_TEXTURE_BUFFER, 0);
+  glBindBuffer (GL_TEXTURE_BUFFER, 0);
+  g_free (data);
+}
+
+/* Atoms whose displacement reaches the threshold get an arrow. */
+static void
+upload_arrows (QvRenderer *r)
+{
+  g_autofree guint32 *list = g_new (guint32, MAX (r->n_atoms, 1));
+  float t2 = r->options.arrow_threshold * r->options.arrow_threshold;
+
+  r->n_arrows = 0;
+  if (r->re)
+    for (gsize i = 0; i < r->n_atoms; i++)
+      {
+        const float *d = r->re + 3 * i;
+        float a2 = d[0] * d[0] + d[1] * d[1] + d[2] * d[2];
+        if (a2 > 0.0f && a2 >= t2)
+          list[r->n_arrows++] = (guint32) i;
+      }
+  glBindBuffer (GL_ARRAY_BUFFER, r->arrow_buffer);
+  glBufferData (GL_ARRAY_BUFFER, 4 * MAX (r->n_arrows, 1), list, GL_STATIC_DRAW);
+  glBindBuffer (GL_ARRAY_BUFFER, 0);
+}
+
+static void
+update_radii (QvRenderer *r)
+{
+  for (gsize i = 0; i < r->n_atoms; i++)
+    r->radii[i] = r->style_radii[i] * r->options.atom_scale;
+}
+
+/* Labels: element symbol and 1-based index, one instance per glyph. */
+static void
+upload_labels (QvRenderer *r)
+{
+  GArray *glyphs = g_array_new (FALSE, FALSE, sizeof (LabelGlyph));
+
+  if (r->atlas == NULL)
+    {
+      r->atlas = qv_label_atlas_new ();
+      glGenTextures (1, &r->atlas_texture);
+      glBindTexture (GL_TEXTURE_2D, r->atlas_texture);
+      glPixelStorei (GL_UNPACK_ALIGNMENT, 1);
+      glTexImage2D (GL_TEXTURE_2D, 0, GL_RG8, r->atlas->width, r->atlas->height, 0,
+                    GL_RG, GL_UNSIGNED_BYTE, r->atlas->rg);
+      glTexParameteri (GL_TEXTURE_2D, GL_TEXTURE_MIN_FILTER, GL_LINEAR_MIPMAP_LINEAR);
+      glTexParameteri (GL_TEXTURE_2D, GL_TEXTURE_MAG_FILTER, GL_LINEAR);
+      glTexParameteri (GL_TEXTURE_2D, GL_TEXTURE_WRAP_S, GL_CLAMP_TO_EDGE);
+      glTexParameteri (GL_TEXTURE_2D, GL_TEXTURE_WRAP_T, GL_CLAMP_TO_EDGE);
+      glGenerateMipmap (GL_TEXTURE_2D);
+      glBindTexture (GL_TEXTURE_2D, 0);
+    }
+  for (gsize i = 0; i < r->n_atoms; i++)
+    {
+      const QvElement *e = qv_element_from_z (r->z[i]);
+      char text[32];
+      float width = 0.0f, pen;
+
+      g_snprintf (text, sizeof text, "%s%" G_GSIZE_FORMAT, e ? e->symbol : "X", i + 1);
+      for (const char *c = text; *c; c++)
+        if ((guchar) *c < 128 && r->atlas->glyphs[(guchar) *c].present)
+          width += r->atlas->glyphs[(guchar) *c].advance;
+      pen = -0.5f * width;
+      for (const char *c = text; *c; c++)
+        {
+          const QvGlyph *g;
+          LabelGlyph lg;
+          if ((guchar) *c >= 128 || !r->atlas->glyphs[(guchar) *c].present)
+            continue;
+          g = &r->atlas->glyphs[(guchar) *c];
+          lg.atom = (guint32) i;
+          memcpy (lg.uv, g->uv, sizeof lg.uv);
+          lg.offset[0] = pen - g->pad;
+          lg.offset[1] = g->advance + 2.0f * g->pad;
+          g_array_append_val (glyphs, lg);
+          pen += g->advance;
+        }
+    }
+  r->n_label_glyphs = glyphs->len;
+  glBindBuffer (GL_ARRAY_BUFFER, r->label_buffer);
+  glBufferData (GL_ARRAY_BUFFER, sizeof (LabelGlyph) * MAX (glyphs->len, 1),
+                glyphs->data, GL_STATIC_DRAW);
+  glBindBuffer (GL_ARRAY_BUFFER, 0);
+  g_array_free (glyphs, TRUE);
+}
+
+static void
+update_bounds (QvRenderer *r)
+{
+  float lo[3] = { 0, 0, 0 }, hi[3] = { 0, 0, 0 }, r2 = 0.0f;
+
+  for (gsize i = 0; i < r->n_atoms; i++)
+    for (int k = 0; k < 3; k++)
+      {
+        float v = r->rest[3 * i + k];
+        lo[k] = i == 0 ? v : MIN (lo[k], v);
+        hi[k] = i == 0 ? v : MAX (hi[k], v);
+      }
+  for (int k = 0; k < 3; k++)
+    r->centre[k] = 0.5f * (lo[k] + hi[k]);
+  for (gsize i = 0; i < r->n_atoms; i++)
+    {
+      float d2 = 0.0f;
+      for (int k = 0; k < 3; k++)
+        d2 += (r->rest[3 * i + k] - r->centre[k]) * (r->rest[3 * i + k] - r->centre[k]);
+      r2 = MAX (r2, d2);
+    }
+  r->extent = sqrtf (r2) + 1.0f;
+}
+
+void
+qv_renderer_set_structure (QvRenderer *r, const QvStructure *structure)
+{
+  gsize n = structure->n_atoms, n_bonds = 0;
+  g_autofree QvBond *bonds = NULL;
+  float cell[24 * 3];
+
+  g_free (r->z);
+  g_free (r->rest);
+  g_free (r->style_radii);
+  g_free (r->radii);
+  g_free (r->positions);
+  g_clear_pointer (&r->re, g_free);
+  g_clear_pointer (&r->im, g_free);
+  g_clear_pointer (&r->participation, g_free);
+  r->n_atoms = n;
+  r->z = g_new (guint, MAX (n, 1));
+  r->rest = g_new (float, 3 * MAX (n, 1));
+  r->style_radii = g_new (float, MAX (n, 1));
+  r->radii = g_new (float, MAX (n, 1));
+  r->positions = g_new (float, 3 * MAX (n, 1));
+  r->positions_valid = FALSE;
+  r->highlight = -1;
+  for (gsize i = 0; i < n; i++)
+    {
+      r->z[i] = structure->atoms[i].z;
+      for (int k = 0; k < 3; k++)
+        r->rest[3 * i + k] = (float) structure->atoms[i].position[k];
+      r->style_radii[i] = qv_style_element (r->z[i])->radius;
+    }
+  update_radii (r);
+  update_bounds (r);
+  upload_atoms (r);
+  upload_colours (r);
+  upload_arrows (r);
+
+  bonds = qv_bonds_perceive (structure, QV_BONDS_DEFAULT_TOLERANCE, &n_bonds);
+  r->n_bonds = n_bonds;
+  glBindBuffer (GL_ARRAY_BUFFER, r->bond_buffer);
+  glBufferData (GL_ARRAY_BUFFER, sizeof (QvBond) * MAX (n_bonds, 1), bonds, GL_STATIC_DRAW);
+
+  /* Cell edges: the 12 edges between the corners i·a + j·b + k·c. */
+  r->has_cell = structure->has_cell;
+  if (r->has_cell)
+    {
+      int m = 0;
+      for (int c0 = 0; c0 < 8; c0++)
+        for (int axis = 0; axis < 3; axis++)
+          {
+            int c1 = c0 | (1 << axis);
+            if (c1 == c0)
+              continue;
+            for (int end = 0; end < 2; end++)
+              {
+                int c = end ? c1 : c0;
+                for (int k = 0; k < 3; k++)
+                  {
+                    double v = 0.0;
+                    for (int row = 0; row < 3; row++)
+                      if (c & (1 << row))
+                        v += structure->cell[row][k];
+                    cell[3 * m + k] = (float) v;
+                  }
+                m++;
+              }
+          }
+      g_assert (m == 24);
+      glBindBuffer (GL_ARRAY_BUFFER, r->cell_buffer);
+      glBufferData (GL_ARRAY_BUFFER, sizeof cell, cell, GL_STATIC_DRAW);
+    }
+  glBindBuffer (GL_ARRAY_BUFFER, 0);
+  r->n_label_glyphs = 0;
+  if (r->options.labels)
+    upload_labels (r);
+}
+
+void
+qv_renderer_set_mode (QvRenderer *r, const float *re, const float *im, float amplitude)
+{
+  gsize n3 = 3 * r->n_atoms;
+
+  g_clear_pointer (&r->re, g_free);
+  g_clear_pointer (&r->im, g_free);
+  if (re && r->n_atoms > 0)
+    {
+      r->re = g_new (float, n3);
+      for (gsize i = 0; i < n3; i++)
+        r->re[i] = re[i] * amplitude;
+      if (im)
+        {
+          r->im = g_new (float, n3);
+          for (gsize i = 0; i < n3; i++)
+            r->im[i] = im[i] * amplitude;
+        }
+    }
+  r->positions_valid = FALSE;
+  upload_atoms (r);
+  upload_arrows (r);
+}
+
+void
+qv_renderer_set_participation (QvRenderer *r, const float *participation)
+{
+  float max = 0.0f;
+
+  g_clear_pointer (&r->participation, g_free);
+  if (participation && r->n_atoms > 0)
+    {
+      r->participation = g_memdup2 (participation, sizeof (float) * r->n_atoms);
+      for (gsize i = 0; i < r->n_atoms; i++)
+        if (isfinite (participation[i]))
+          max = MAX (max, participation[i]);
+      for (gsize i = 0; i < r->n_atoms; i++)
+        r->participation[i] = max > 0.0f && isfinite (participation[i])
+                              ? participation[i] / max : 0.0f;
+    }
+  upload_colours (r);
+}
+
+void
+qv_renderer_set_phase (QvRenderer *r, float phase)
+{
+  if (phase != r->phase)
+    r->positions_valid = FALSE;
+  r->phase = phase;
+}
+
+void
+qv_renderer_set_options (QvRenderer *r, const QvRenderOptions *options)
+{
+  QvRenderOptions old = r->options;
+
+  r->options = *options;
+  if (!(r->options.atom_scale > 0.0f))
+    r->options.atom_scale = 1.0f;
+  if (!(r->options.bond_radius > 0.0f))
+    r->options.bond_radius = 0.13f;
+  if (old.colouring != r->options.colouring && r->n_atoms > 0)
+    upload_colours (r);
+  if (old.arrow_threshold != r->options.arrow_threshold)
+    upload_arrows (r);
+  if (old.atom_scale != r->options.atom_scale)
+    update_radii (r);
+  if (r->options.labels && !old.labels && r->n_atoms > 0)
+    upload_labels (r);
+}
+
+const QvRenderOptions *
+qv_renderer_get_options (const QvRenderer *r)
+{
+  return &r->options;
+}
+
+void
+qv_renderer_set_highlight (QvRenderer *r, gssize atom)
+{
+  r->highlight = atom >= 0 && (gsize) atom < r->n_atoms ? atom : -1;
+}
+
+static void
+fill_frame (QvRenderer *r, const QvCamera *camera, FrameBlock *f)
+{
+  mat4 view, proj;
+  vec4 c = { r->centre[0], r->centre[1], r->centre[2], 1.0f }, cv;
+  float light[3] = { -0.40f, 0.55f, 0.73f }, norm;
+
+  qv_camera_view_matrix (camera, view);
+  qv_camera_projection_matrix (camera, proj);
+  memcpy (f->view, view, sizeof f->view);
+  memcpy (f->proj, proj, sizeof f->proj);
+  norm = sqrtf (light[0] * light[0] + light[1] * light[1] + light[2] * light[2]);
+  for (int k = 0; k < 3; k++)
+    f->light[k] = light[k] / norm;
+  f->light[3] = 0.24f;
+  qv_style_background (r->options.background, f->bg);
+  qv_style_foreground (r->options.background, f->fg);
+  qv_style_arrow (r->options.background, f->accent);
+  f->fg[3] = f->accent[3] = 1.0f;
+  /* Depth cueing from a little before the scene's centre to its back. */
+  glm_mat4_mulv (view, c, cv);
+  f->cue[0] = -cv[2] - 0.3f * r->extent;
+  f->cue[1] = -cv[2] + r->extent;
+  f->cue[2] = r->options.depth_cue ? 0.5f : 0.0f;
+  f->viewport[0] = (float) camera->width;
+  f->viewport[1] = (float) camera->height;
+  f->viewport[2] = 1.0f / (float) camera->width;
+  f->viewport[3] = 1.0f / (float) camera->height;
+  f->phase = r->phase;
+  f->atom_scale = r->options.atom_scale;
+  f->bond_radius = r->options.bond_radius;
+  f->highlight = (gint32) r->highlight;
+  f->ortho = camera->projection == QV_CAMERA_ORTHOGRAPHIC ? 1.0f : 0.0f;
+  f->label_px = CLAMP ((float) camera->height / 34.0f, 16.0f, 96.0f);
+  f->arrow_scale = r->options.arrow_scale;
+}
+
+void
+qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
+{
+  FrameBlock frame;
+  GLint sample_buffers = 0;
+
+  fill_frame (r, camera, &frame);
+  glViewport (0, 0, camera->width, camera->height);
+  glClearColor (frame.bg[0], frame.bg[1], frame.bg[2], frame.bg[3]);
+  glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_TRUE);
+  glDepthMask (GL_TRUE);
+  glClear (GL_COLOR_BUFFER_BIT | GL_DEPTH_BUFFER_BIT);
+  if (r->n_atoms == 0)
+    return;
+
+  glBindBuffer (GL_UNIFORM_BUFFER, r->ubo);
+  glBufferSubData (GL_UNIFORM_BUFFER, 0, sizeof frame, &frame);
+  glBindBufferBase (GL_UNIFORM_BUFFER, 0, r->ubo);
+  glActiveTexture (GL_TEXTURE0);
+  glBindTexture (GL_TEXTURE_BUFFER, r->atom_texture);
+  glActiveTexture (GL_TEXTURE1);
+  glBindTexture (GL_TEXTURE_BUFFER, r->colour_texture);
+  glActiveTexture (GL_TEXTURE2);
+  glBindTexture (GL_TEXTURE_2D, r->atlas_texture);
+
+  glEnable (GL_DEPTH_TEST);
+  glDepthFunc (GL_LESS);
+  glDisable (GL_BLEND);
+  glDisable (GL_CULL_FACE);
+  /* The background's alpha stays as cleared: edge fragments carry
+   * coverage in alpha, not transparency. */
+  glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_FALSE);
+
+  /* Ordinary geometry first: its depth test happens before shading, and
+   * it then hides impostor fragments behind it. */
+  if (r->options.cell && r->has_cell)
+    {
+      glUseProgram (r->programs[PROG_LINE]);
+      glBindVertexArray (r->cell_vao);
+      glDrawArrays (GL_LINES, 0, 24);
+    }
+  if (r->options.arrows && r->n_arrows > 0)
+    {
+      glUseProgram (r->programs[PROG_ARROW]);
+      glBindVertexArray (r->arrow_vao);
+      glDrawElementsInstanced (GL_TRIANGLES, r->arrow_n_indices, GL_UNSIGNED_SHORT, NULL,
+                               (GLsizei) r->n_arrows);
+    }
+
+  glGetIntegerv (GL_SAMPLE_BUFFERS, &sample_buffers);
+  if (sample_buffers > 0)
+    glEnable (GL_SAMPLE_ALPHA_TO_COVERAGE);
+  glUseProgram (r->programs[PROG_SPHERE]);
+  glBindVertexArray (r->sphere_vao);
+  glDrawArraysInstanced (GL_TRIANGLE_STRIP, 0, 4, (GLsizei) r->n_atoms);
+  if (r->options.bonds && r->n_bonds > 0)
+    {
+      glUseProgram (r->programs[PROG_CYLINDER]);
+      glBindVertexArray (r->bond_vao);
+      glDrawArraysInstanced (GL_TRIANGLE_STRIP, 0, 4, (GLsizei) r->n_bonds);
+    }
+  glDisable (GL_SAMPLE_ALPHA_TO_COVERAGE);
+
+  if (r->options.labels && r->n_label_glyphs > 0)
+    {
+      glEnable (GL_BLEND);
+      glBlendFunc (GL_SRC_ALPHA, GL_ONE_MINUS_SRC_ALPHA);
+      glDepthMask (GL_FALSE);
+      glUseProgram (r->programs[PROG_LABEL]);
+      glBindVertexArray (r->label_vao);
+      glDrawArraysInstanced (GL_TRIANGLE_STRIP, 0, 4, (GLsizei) r->n_label_glyphs);
+      glDepthMask (GL_TRUE);
+      glDisable (GL_BLEND);
+    }
+  glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_TRUE);
+  glBindVertexArray (0);
+  glUseProgram (0);
+}
+
+const float *
+qv_renderer_positions (QvRenderer *r)
+{
+  if (!r->positions_valid)
+    {
+      float c = cosf (r->phase), s = sinf (r->phase);
+      for (gsize i = 0; i < 3 * r->n_atoms; i++)
+        r->positions[i] = r->rest[i] + (r->re ? r->re[i] * c : 0.0f)
+                          - (r->im ? r->im[i] * s : 0.0f);
+      r->positions_valid = TRUE;
+    }
+  return r->positions;
+}
+
+const float *
+qv_renderer_radii (const QvRenderer *r)
+{
+  return r->radii;
+}
+
+gsize
+qv_renderer_n_atoms (const QvRenderer *r)
+{
+  return r->n_atoms;
+}
+
+gsize
+qv_renderer_n_bonds (const QvRenderer *r)
+{
+  return r->n_bonds;
+}

@@ -171,7 +171,7 @@ void
 qv_style_srgb_to_oklab (const double rgb[3], double lab[3])
 {
   double r = srgb_decode (rgb[0]), g = srgb_decode (rgb[1]), b = srgb_decode (rgb[2]);
-  double l = cbrt (0.4122214708 * r + 0.5363015620 * g + 0.0514459929 * b);
+  double l = cbrt (0.4122214708 * r + 0.5363325363 * g + 0.0514459929 * b);
   double m = cbrt (0.2119034982 * r + 0.6806995451 * g + 0.1073969566 * b);
   double s = cbrt (0.0883024619 * r + 0.2817188376 * g + 0.6299787005 * b);
 
