@@ -142,9 +142,12 @@ update_titles (QvModePanel *self)
 {
   const char *unit = self->unit == QV_FREQUENCY_THZ ? _("THz")
                      : self->unit == QV_FREQUENCY_MEV ? _("meV") : _("cm⁻¹");
-  g_autofree char *freq = g_strdup_printf (_("Frequency (%s)"), unit);
-  g_autofree char *tp = g_strdup_printf (_("Q tp, v=%u (u½Å)"), self->level);
-  g_autofree char *disp = g_strdup_printf (_("Largest, v=%u (Å)"), self->level);
+  /* TRANSLATORS: column title, %s is the unit (cm⁻¹, THz, meV) */
+  g_autofree char *freq = g_strdup_printf (_("Freq. (%s)"), unit);
+  /* TRANSLATORS: column title: the classical turning point in u½ Å */
+  g_autofree char *tp = g_strdup (_("Q tp (u½Å)"));
+  /* TRANSLATORS: column title: the largest atomic displacement in Å */
+  g_autofree char *disp = g_strdup (_("Max (Å)"));
 
   gtk_column_view_column_set_title (self->columns[COL_WAVENUMBER], freq);
   gtk_column_view_column_set_title (self->columns[COL_TURNING], tp);
@@ -239,17 +242,15 @@ update_summary (QvModePanel *self)
   warnings = qv_mode_set_warnings (m);
   for (char **w = warnings; w && *w; w++)
     {
-      GtkWidget *row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
-      GtkWidget *icon = gtk_image_new_from_icon_name ("dialog-warning-symbolic");
-      GtkWidget *label = gtk_label_new (*w);
-      gtk_widget_set_valign (icon, GTK_ALIGN_START);
+      /* One wrapping label per warning, the sign in its text. */
+      g_autofree char *text = g_strdup_printf ("⚠ %s", *w);
+      GtkWidget *label = gtk_label_new (text);
       gtk_label_set_wrap (GTK_LABEL (label), TRUE);
+      /* Natural width under the panel's narrowest: measured without a
+       * width, the label then wraps at least as much as when placed. */
+      gtk_label_set_max_width_chars (GTK_LABEL (label), 40);
       gtk_label_set_xalign (GTK_LABEL (label), 0.0f);
-      gtk_label_set_selectable (GTK_LABEL (label), TRUE);
-      gtk_widget_set_hexpand (label, TRUE);
-      gtk_box_append (GTK_BOX (row), icon);
-      gtk_box_append (GTK_BOX (row), label);
-      gtk_box_append (self->warnings_box, row);
+      gtk_box_append (self->warnings_box, label);
     }
   gtk_widget_set_visible (GTK_WIDGET (self->warnings_box), warnings && warnings[0]);
 }

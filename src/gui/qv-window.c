@@ -20,6 +20,7 @@ struct _QvWindow
   GtkLabel *title_label;
   GtkLabel *subtitle_label;
   GtkToggleButton *play_button;
+  GtkWidget *export_button;
   GtkRevealer *progress_revealer;
   GtkLabel *progress_label;
   GtkProgressBar *progress_bar;
@@ -106,6 +107,9 @@ update_title (QvWindow *self)
   g_autofree char *formula = NULL;
   g_autofree char *subtitle = NULL;
 
+  /* Play and the export pane need a document. */
+  gtk_widget_set_visible (GTK_WIDGET (self->play_button), self->document != NULL);
+  gtk_widget_set_visible (self->export_button, self->document != NULL);
   if (self->document == NULL)
     {
       gtk_label_set_label (self->title_label, _("Quaver"));
@@ -663,6 +667,7 @@ qv_window_class_init (QvWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvWindow, title_label);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, subtitle_label);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, play_button);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, export_button);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, progress_revealer);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, progress_label);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, progress_bar);
@@ -737,6 +742,7 @@ qv_window_init (QvWindow *self)
 
   qv_window_actions_install (self);
   qv_window_actions_update (self);
+  update_title (self);
 }
 
 QvWindow *
