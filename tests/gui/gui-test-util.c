@@ -1,0 +1,138 @@
+/* gui-test-util.c — driving the app in tests.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <glib/gstdio.h>
+#include "gui-test-util.h"
+#include "qv-gui.h"
+
+QvApplication *
+qvg_app (void)
+{
+  static QvApplication *app = NULL;
+
+  if (app == NULL)
+    {
+      g_autoptr(GError) error = NULL;
+      qv_gui_init_i18n ();
+      g_set_application_name ("Quaver");
+      app = qv_application_new ();
+      if (!g_application_register (G_APPLICATION (app), NULL, &error))
+        g_error ("cannot register the application: %s", error->message);
+      /* Windows come and go; the application stays for the whole run. */
+      g_application_hold (G_APPLICATION (app));
+    }
+  return app;
+}
+
+static gboolean
+is_mapped (gpointer widget)
+{
+  return gtk_widget_get_mapped (widget);
+}
+
+QvWindow *
+qvg_window (void)
+{
+  QvWindow *window = QV_WINDOW (qv_application_new_window (qvg_app ()));
+
+  gtk_window_set_default_size (GTK_WINDOW (window), 1200, 760);
+  gtk_window_present (GTK_WINDOW (window));
+  qvg_wait (is_mapped, window, 10.0);
+  return window;
+}
+
+static gboolean
+flag_timeout (gpointer data)
+{
+  *(gboolean *) data = TRUE;
+  return G_SOURCE_REMOVE;
+}
+
+gboolean
+qvg_wait (gboolean (*cond) (gpointer data), gpointer data, double timeout_s)
+{
+  gboolean timed_out = FALSE;
+  guint id = g_timeout_add ((guint) (timeout_s * 1000.0), flag_timeout, &timed_out);
+  gboolean ok;
+
+  while (!(ok = cond (data)) && !timed_out)
+    g_main_context_iteration (NULL, TRUE);
+  if (!timed_out)
+    g_source_remove (id);
+  return ok;
+}
+
+static gboolean
+never (gpointer data)
+{
+  return FALSE;
+}
+
+void
+qvg_spin (double seconds)
+{
+  qvg_wait (never, NULL, seconds);
+}
+
+gboolean
+qvg_window_has_document (gpointer window)
+{
+  return qv_window_get_document (window) != NULL && !qv_window_is_busy (window);
+}
+
+gboolean
+qvg_window_idle (gpointer window)
+{
+  return !qv_window_is_busy (window);
+}
+
+GdkTexture *
+qvg_snapshot (GtkWidget *window)
+{
+  g_autoptr(GdkPaintable) paintable = gtk_widget_paintable_new (window);
+  GtkSnapshot *snapshot = gtk_snapshot_new ();
+  const int w = gtk_widget_get_width (window), h = gtk_widget_get_height (window);
+  g_autoptr(GskRenderNode) node = NULL;
+  GskRenderer *renderer = gtk_native_get_renderer (GTK_NATIVE (window));
+
+  gdk_paintable_snapshot (paintable, snapshot, w, h);
+  node = gtk_snapshot_free_to_node (snapshot);
+  if (node == NULL)
+    return NULL;
+  return gsk_renderer_render_texture (renderer, node, &GRAPHENE_RECT_INIT (0, 0, (float) w, (float) h));
+}
+
+guchar *
+qvg_pixels (GdkTexture *texture, gsize *stride)
+{
+  const int w = gdk_texture_get_width (texture), h = gdk_texture_get_height (texture);
+  guchar *data = g_malloc ((gsize) w * (gsize) h * 4);
+
+  *stride = (gsize) w * 4;
+  gdk_texture_download (texture, data, *stride);
+  return data;
+}
+
+guint
+qvg_count_colours (const guchar *pixels, gsize stride, int x, int y, int w, int h)
+{
+  g_autoptr(GHashTable) seen = g_hash_table_new (g_direct_hash, g_direct_equal);
+
+  for (int j = y; j < y + h; j++)
+    for (int i = x; i < x + w; i++)
+      {
+        const guchar *p = pixels + (gsize) j * stride + (gsize) i * 4;
+        const guint32 c = ((guint32) p[0] << 16) | ((guint32) p[1] << 8) | p[2];
+        g_hash_table_add (seen, GUINT_TO_POINTER (c + 1));
+      }
+  return g_hash_table_size (seen);
+}
+
+char *
+qvg_build_path (const char *name)
+{
+  const char *root = g_getenv ("QV_BUILD_ROOT");
+  g_autofree char *dir = g_build_filename (root ? root : ".", "tests", "gui", NULL);
+
+  g_mkdir_with_parents (dir, 0755);
+  return g_build_filename (dir, name, NULL);
+}
