@@ -1,6 +1,8 @@
 /* qv-renderer.c — a structure and one animated mode with OpenGL 3.3 core:
- * impostor spheres and cylinders, arrows, cell edges and labels, each one
- * instanced draw call. The atoms' rest positions and displacement field
+ * impostor spheres and cylinders, arrows, cell edges and labels, one draw
+ * call each. Not instanced: llvmpipe (the floor, no GPU) runs its whole
+ * vertex pipeline once per instance, so each primitive is a range of
+ * vertices whose index gives the atom, bond or glyph (6 per quad). The atoms' rest positions and displacement field
  * live in a texture buffer uploaded once per mode; per frame only the
  * phase changes (one small uniform block).
  * SPDX-License-Identifier: GPL-3.0-or-later */
@@ -17,7 +19,9 @@ static const char *const program_names[N_PROGRAMS] = {
   "sphere", "cylinder", "arrow", "line", "label",
 };
 
-#define ARROW_SEGMENTS 12
+/* Must match SEGMENTS in shaders/arrow.vert. */
+#define ARROW_SEGMENTS 10
+#define ARROW_MESH (5 * ARROW_SEGMENTS + 1)
 
 /* Mirrors the std140 block Frame in shaders/common.glsl. */
 typedef struct {
@@ -53,9 +57,10 @@ struct _QvRenderer {
   GLuint atom_buffer, atom_texture;       /* 3 RGBA32F texels per atom */
   GLuint colour_buffer, colour_texture;   /* 1 RGBA8 texel per atom */
   GLuint sphere_vao;
-  GLuint bond_vao, bond_buffer;
-  GLuint arrow_vao, arrow_mesh, arrow_indices, arrow_buffer;
-  GLsizei arrow_n_indices;
+  GLuint bond_buffer, bond_texture;         /* RG32UI: the two atoms */
+  GLuint arrow_vao, arrow_indices, arrow_buffer, arrow_texture;  /* R32UI: atoms */
+  GLushort arrow_mesh[4 * ARROW_SEGMENTS * 3];
+  GLsizei arrow_n_indices;                  /* per arrow */
   GLuint cell_vao, cell_buffer;
   GLuint label_vao, label_buffer, atlas_texture;
   QvLabelAtlas *atlas;
@@ -105,42 +110,45 @@ setup_program (GLuint program)
   glUniform1i (glGetUniformLocation (program, "u_atoms"), 0);
   glUniform1i (glGetUniformLocation (program, "u_colours"), 1);
   glUniform1i (glGetUniformLocation (program, "u_atlas"), 2);
+  glUniform1i (glGetUniformLocation (program, "u_bonds"), 3);
+  glUniform1i (glGetUniformLocation (program, "u_arrows"), 4);
   glUseProgram (0);
 }
 
+/* A texture buffer of @format over a new buffer object. */
+static void
+texture_buffer (GLuint *buffer, GLuint *texture, GLenum format)
+{
+  glGenBuffers (1, buffer);
+  glBindBuffer (GL_TEXTURE_BUFFER, *buffer);
+  glBufferData (GL_TEXTURE_BUFFER, 16, NULL, GL_STATIC_DRAW);
+  glGenTextures (1, texture);
+  glBindTexture (GL_TEXTURE_BUFFER, *texture);
+  glTexBuffer (GL_TEXTURE_BUFFER, format, *buffer);
+  glBindTexture (GL_TEXTURE_BUFFER, 0);
+  glBindBuffer (GL_TEXTURE_BUFFER, 0);
+}
+
+static void
+fill_texture_buffer (GLuint buffer, GLuint texture, GLenum format, gsize size, const void *data)
+{
+  glBindBuffer (GL_TEXTURE_BUFFER, buffer);
+  glBufferData (GL_TEXTURE_BUFFER, MAX (size, 16), data, GL_STATIC_DRAW);
+  glBindTexture (GL_TEXTURE_BUFFER, texture);
+  glTexBuffer (GL_TEXTURE_BUFFER, format, buffer);
+  glBindTexture (GL_TEXTURE_BUFFER, 0);
+  glBindBuffer (GL_TEXTURE_BUFFER, 0);
+}
+
+/* The triangles of one arrow over the vertices arrow.vert generates: rings
+ * 0 (shaft bottom), S (shaft top), 2S (head underside), the centre 3S, the
+ * cone ring 3S+1 and the tips 4S+1. */
 static void
 build_arrow_mesh (QvRenderer *r)
 {
-  float v[(5 * ARROW_SEGMENTS + 1) * 4];
-  GLushort idx[4 * ARROW_SEGMENTS * 3];
-  int nv = 0, ni = 0;
   const int S = ARROW_SEGMENTS;
+  int ni = 0;
 
-#define VERT(c, s, part) (v[4 * nv] = (c), v[4 * nv + 1] = (s), v[4 * nv + 2] = (part), v[4 * nv + 3] = 0, nv++)
-  for (int part = 0; part < 5; part++)
-    {
-      if (part == 3)
-        {
-          VERT (0.0f, 0.0f, 3.0f);
-          continue;
-        }
-      for (int k = 0; k < S; k++)
-        {
-          double a = 2.0 * G_PI * k / S;
-          VERT ((float) cos (a), (float) sin (a), (float) part);
-        }
-    }
-  /* Tips: one per segment, with the segment's middle direction so the
-   * cone's normals stay smooth. */
-  for (int k = 0; k < S; k++)
-    {
-      double a = 2.0 * G_PI * (k + 0.5) / S;
-      VERT ((float) cos (a), (float) sin (a), 5.0f);
-    }
-#undef VERT
-  g_assert (nv == 5 * S + 1);
-  /* Vertex bases: ring 0 at 0, ring 1 at S, ring 2 at 2S, centre 3S,
-   * cone ring 3S+1, tips 4S+1. */
   for (int k = 0; k < S; k++)
     {
       int k1 = (k + 1) % S;
@@ -150,28 +158,17 @@ build_arrow_mesh (QvRenderer *r)
         { 3 * S, 2 * S + k1, 2 * S + k },
         { 3 * S + 1 + k, 3 * S + 1 + k1, 4 * S + 1 + k },
       };
-      memcpy (idx + ni, tri, sizeof tri);
+      memcpy (r->arrow_mesh + ni, tri, sizeof tri);
       ni += 12;
     }
   r->arrow_n_indices = ni;
-
   glGenVertexArrays (1, &r->arrow_vao);
   glBindVertexArray (r->arrow_vao);
-  glGenBuffers (1, &r->arrow_mesh);
-  glBindBuffer (GL_ARRAY_BUFFER, r->arrow_mesh);
-  glBufferData (GL_ARRAY_BUFFER, sizeof (float) * 4 * nv, v, GL_STATIC_DRAW);
-  glEnableVertexAttribArray (0);
-  glVertexAttribPointer (0, 4, GL_FLOAT, GL_FALSE, 16, NULL);
   glGenBuffers (1, &r->arrow_indices);
   glBindBuffer (GL_ELEMENT_ARRAY_BUFFER, r->arrow_indices);
-  glBufferData (GL_ELEMENT_ARRAY_BUFFER, sizeof (GLushort) * ni, idx, GL_STATIC_DRAW);
-  glGenBuffers (1, &r->arrow_buffer);
-  glBindBuffer (GL_ARRAY_BUFFER, r->arrow_buffer);
-  glBufferData (GL_ARRAY_BUFFER, 16, NULL, GL_DYNAMIC_DRAW);
-  glEnableVertexAttribArray (1);
-  glVertexAttribIPointer (1, 1, GL_UNSIGNED_INT, 4, NULL);
-  glVertexAttribDivisor (1, 1);
+  glBufferData (GL_ELEMENT_ARRAY_BUFFER, 16, NULL, GL_STATIC_DRAW);
   glBindVertexArray (0);
+  texture_buffer (&r->arrow_buffer, &r->arrow_texture, GL_R32UI);
 }
 
 QvRenderer *
@@ -212,14 +209,7 @@ qv_renderer_new (GError **error)
 
   glGenVertexArrays (1, &r->sphere_vao);
 
-  glGenVertexArrays (1, &r->bond_vao);
-  glBindVertexArray (r->bond_vao);
-  glGenBuffers (1, &r->bond_buffer);
-  glBindBuffer (GL_ARRAY_BUFFER, r->bond_buffer);
-  glBufferData (GL_ARRAY_BUFFER, 16, NULL, GL_STATIC_DRAW);
-  glEnableVertexAttribArray (0);
-  glVertexAttribIPointer (0, 2, GL_UNSIGNED_INT, 8, NULL);
-  glVertexAttribDivisor (0, 1);
+  texture_buffer (&r->bond_buffer, &r->bond_texture, GL_RG32UI);
 
   build_arrow_mesh (r);
 
@@ -238,15 +228,12 @@ qv_renderer_new (GError **error)
   glBufferData (GL_ARRAY_BUFFER, sizeof (LabelGlyph), NULL, GL_STATIC_DRAW);
   glEnableVertexAttribArray (0);
   glVertexAttribIPointer (0, 1, GL_UNSIGNED_INT, sizeof (LabelGlyph), NULL);
-  glVertexAttribDivisor (0, 1);
   glEnableVertexAttribArray (1);
   glVertexAttribPointer (1, 4, GL_FLOAT, GL_FALSE, sizeof (LabelGlyph),
                          (void *) G_STRUCT_OFFSET (LabelGlyph, uv));
-  glVertexAttribDivisor (1, 1);
   glEnableVertexAttribArray (2);
   glVertexAttribPointer (2, 2, GL_FLOAT, GL_FALSE, sizeof (LabelGlyph),
                          (void *) G_STRUCT_OFFSET (LabelGlyph, offset));
-  glVertexAttribDivisor (2, 1);
   glBindVertexArray (0);
   glBindBuffer (GL_ARRAY_BUFFER, 0);
   return r;
@@ -255,7 +242,7 @@ qv_renderer_new (GError **error)
 void
 qv_renderer_free (QvRenderer *r)
 {
-  GLuint buffers[10], vaos[5], textures[3];
+  GLuint buffers[10], vaos[4], textures[5];
 
   if (r == NULL)
     return;
@@ -266,7 +253,7 @@ qv_renderer_free (QvRenderer *r)
   buffers[1] = r->atom_buffer;
   buffers[2] = r->colour_buffer;
   buffers[3] = r->bond_buffer;
-  buffers[4] = r->arrow_mesh;
+  buffers[4] = 0;
   buffers[5] = r->arrow_indices;
   buffers[6] = r->arrow_buffer;
   buffers[7] = r->cell_buffer;
@@ -274,15 +261,16 @@ qv_renderer_free (QvRenderer *r)
   buffers[9] = 0;
   glDeleteBuffers (10, buffers);
   vaos[0] = r->sphere_vao;
-  vaos[1] = r->bond_vao;
-  vaos[2] = r->arrow_vao;
-  vaos[3] = r->cell_vao;
-  vaos[4] = r->label_vao;
-  glDeleteVertexArrays (5, vaos);
+  vaos[1] = r->arrow_vao;
+  vaos[2] = r->cell_vao;
+  vaos[3] = r->label_vao;
+  glDeleteVertexArrays (4, vaos);
   textures[0] = r->atom_texture;
   textures[1] = r->colour_texture;
   textures[2] = r->atlas_texture;
-  glDeleteTextures (3, textures);
+  textures[3] = r->bond_texture;
+  textures[4] = r->arrow_texture;
+  glDeleteTextures (5, textures);
   qv_label_atlas_free (r->atlas);
   g_free (r->z);
   g_free (r->rest);
@@ -363,9 +351,21 @@ upload_arrows (QvRenderer *r)
         if (a2 > 0.0f && a2 >= t2)
           list[r->n_arrows++] = (guint32) i;
       }
-  glBindBuffer (GL_ARRAY_BUFFER, r->arrow_buffer);
-  glBufferData (GL_ARRAY_BUFFER, 4 * MAX (r->n_arrows, 1), list, GL_STATIC_DRAW);
-  glBindBuffer (GL_ARRAY_BUFFER, 0);
+  fill_texture_buffer (r->arrow_buffer, r->arrow_texture, GL_R32UI, 4 * r->n_arrows, list);
+  /* Indices a·MESH + v: with a vertex cache each mesh vertex is shaded once. */
+  if (r->n_arrows > 0)
+    {
+      gsize ni = (gsize) r->arrow_n_indices;
+      guint32 *idx = g_new (guint32, ni * r->n_arrows);
+      for (gsize a = 0; a < r->n_arrows; a++)
+        for (gsize k = 0; k < ni; k++)
+          idx[a * ni + k] = (guint32) (a * ARROW_MESH + r->arrow_mesh[k]);
+      glBindVertexArray (r->arrow_vao);
+      glBufferData (GL_ELEMENT_ARRAY_BUFFER, sizeof (guint32) * ni * r->n_arrows, idx,
+                    GL_STATIC_DRAW);
+      glBindVertexArray (0);
+      g_free (idx);
+    }
 }
 
 static void
@@ -418,11 +418,12 @@ upload_labels (QvRenderer *r)
           memcpy (lg.uv, g->uv, sizeof lg.uv);
           lg.offset[0] = pen - g->pad;
           lg.offset[1] = g->advance + 2.0f * g->pad;
-          g_array_append_val (glyphs, lg);
+          for (int v = 0; v < 6; v++)
+            g_array_append_val (glyphs, lg);
           pen += g->advance;
         }
     }
-  r->n_label_glyphs = glyphs->len;
+  r->n_label_glyphs = glyphs->len / 6;
   glBindBuffer (GL_ARRAY_BUFFER, r->label_buffer);
   glBufferData (GL_ARRAY_BUFFER, sizeof (LabelGlyph) * MAX (glyphs->len, 1),
                 glyphs->data, GL_STATIC_DRAW);
@@ -492,8 +493,7 @@ qv_renderer_set_structure (QvRenderer *r, const QvStructure *structure)
 
   bonds = qv_bonds_perceive (structure, QV_BONDS_DEFAULT_TOLERANCE, &n_bonds);
   r->n_bonds = n_bonds;
-  glBindBuffer (GL_ARRAY_BUFFER, r->bond_buffer);
-  glBufferData (GL_ARRAY_BUFFER, sizeof (QvBond) * MAX (n_bonds, 1), bonds, GL_STATIC_DRAW);
+  fill_texture_buffer (r->bond_buffer, r->bond_texture, GL_RG32UI, sizeof (QvBond) * n_bonds, bonds);
 
   /* Cell edges: the 12 edges between the corners i·a + j·b + k·c. */
   r->has_cell = structure->has_cell;
@@ -674,6 +674,11 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
   glBindTexture (GL_TEXTURE_BUFFER, r->colour_texture);
   glActiveTexture (GL_TEXTURE2);
   glBindTexture (GL_TEXTURE_2D, r->atlas_texture);
+  glActiveTexture (GL_TEXTURE3);
+  glBindTexture (GL_TEXTURE_BUFFER, r->bond_texture);
+  glActiveTexture (GL_TEXTURE4);
+  glBindTexture (GL_TEXTURE_BUFFER, r->arrow_texture);
+  glActiveTexture (GL_TEXTURE0);
 
   glEnable (GL_DEPTH_TEST);
   glDepthFunc (GL_LESS);
@@ -695,8 +700,8 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
     {
       glUseProgram (r->programs[PROG_ARROW]);
       glBindVertexArray (r->arrow_vao);
-      glDrawElementsInstanced (GL_TRIANGLES, r->arrow_n_indices, GL_UNSIGNED_SHORT, NULL,
-                               (GLsizei) r->n_arrows);
+      glDrawElements (GL_TRIANGLES, r->arrow_n_indices * (GLsizei) r->n_arrows,
+                      GL_UNSIGNED_INT, NULL);
     }
 
   glGetIntegerv (GL_SAMPLE_BUFFERS, &sample_buffers);
@@ -704,12 +709,11 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
     glEnable (GL_SAMPLE_ALPHA_TO_COVERAGE);
   glUseProgram (r->programs[PROG_SPHERE]);
   glBindVertexArray (r->sphere_vao);
-  glDrawArraysInstanced (GL_TRIANGLE_STRIP, 0, 4, (GLsizei) r->n_atoms);
+  glDrawArrays (GL_TRIANGLES, 0, 6 * (GLsizei) r->n_atoms);
   if (r->options.bonds && r->n_bonds > 0)
     {
       glUseProgram (r->programs[PROG_CYLINDER]);
-      glBindVertexArray (r->bond_vao);
-      glDrawArraysInstanced (GL_TRIANGLE_STRIP, 0, 4, (GLsizei) r->n_bonds);
+      glDrawArrays (GL_TRIANGLES, 0, 6 * (GLsizei) r->n_bonds);
     }
   glDisable (GL_SAMPLE_ALPHA_TO_COVERAGE);
 
@@ -720,7 +724,7 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
       glDepthMask (GL_FALSE);
       glUseProgram (r->programs[PROG_LABEL]);
       glBindVertexArray (r->label_vao);
-      glDrawArraysInstanced (GL_TRIANGLE_STRIP, 0, 4, (GLsizei) r->n_label_glyphs);
+      glDrawArrays (GL_TRIANGLES, 0, 6 * (GLsizei) r->n_label_glyphs);
       glDepthMask (GL_TRUE);
       glDisable (GL_BLEND);
     }

@@ -1,12 +1,17 @@
 #version 330 core
-// arrow.vert — one displacement arrow per instance: a small mesh (shaft,
-// cone, base disc) placed at the atom's animated position, pointing along
+// arrow.vert — displacement arrows: a small mesh (shaft, cone, base disc)
+// of MESH vertices per arrow, indexed (not instanced, see sphere.vert),
+// vertex v of arrow a being a·MESH + v, placed at the atom's animated position, pointing along
 // its displacement, length u_arrow_scale × |displacement|, starting at the
 // sphere's surface.
 // SPDX-License-Identifier: GPL-3.0-or-later
 
-layout(location = 0) in vec4 a_vertex;   // cos θ, sin θ, part, 0
-layout(location = 1) in uint a_atom;
+// The atom of each arrow.
+uniform usamplerBuffer u_arrows;
+
+// Must match ARROW_SEGMENTS in qv-renderer.c.
+const int SEGMENTS = 10;
+const int MESH = 5 * SEGMENTS + 1;
 
 out vec3 v_pos;
 out vec3 v_normal;
@@ -17,7 +22,15 @@ const float HEAD_LENGTH = 0.34; // Å, at most
 
 void main ()
 {
-  int i = int (a_atom);
+  int v = gl_VertexID % MESH;
+  int i = int (texelFetch (u_arrows, gl_VertexID / MESH).r);
+  // Rings 0–2 (shaft bottom, shaft top, head underside), the underside's
+  // centre, the cone's ring, then the tips between ring vertices.
+  int part = v < 3 * SEGMENTS ? v / SEGMENTS
+           : v == 3 * SEGMENTS ? 3 : v < 4 * SEGMENTS + 1 ? 4 : 5;
+  int k = v < 3 * SEGMENTS ? v % SEGMENTS : v - (part == 4 ? 3 * SEGMENTS + 1 : 4 * SEGMENTS + 1);
+  float angle = 6.28318530718 * (float (k) + (part == 5 ? 0.5 : 0.0)) / float (SEGMENTS);
+  vec2 cs = part == 3 ? vec2 (0.0) : vec2 (cos (angle), sin (angle));
   vec3 centre = qv_atom_position (i);
   vec3 field = texelFetch (u_atoms, 3 * i + 1).xyz;
   float amp = length (field);
@@ -26,15 +39,14 @@ void main ()
   // Short arrows keep their shape: the head takes at most 45 % and shrinks
   // with the whole arrow.
   float head_len = min (HEAD_LENGTH, 0.45 * len);
-  float k = head_len / HEAD_LENGTH;
-  float shaft_r = SHAFT * max (k, 0.5), head_r = HEAD * max (k, 0.5);
+  float shrink = head_len / HEAD_LENGTH;
+  float shaft_r = SHAFT * max (shrink, 0.5), head_r = HEAD * max (shrink, 0.5);
   vec3 e1 = normalize (abs (dir.z) < 0.9 ? cross (dir, vec3 (0.0, 0.0, 1.0))
                                          : cross (dir, vec3 (1.0, 0.0, 0.0)));
   vec3 e2 = cross (dir, e1);
-  vec3 ring = a_vertex.x * e1 + a_vertex.y * e2;
+  vec3 ring = cs.x * e1 + cs.y * e2;
   vec3 base = centre + dir * (0.85 * qv_atom_radius (i));
   float shaft_len = len - head_len;
-  int part = int (a_vertex.z + 0.5);
   vec3 p, n;
 
   if (part == 0)        // shaft, bottom ring

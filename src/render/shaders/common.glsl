@@ -46,6 +46,15 @@ vec3 qv_atom_colour (int i)
   return texelFetch (u_colours, i).rgb;
 }
 
+// Corner (±1, ±1) of vertex @v of a quad drawn as two triangles, six
+// vertices per quad.
+vec2 qv_quad_corner (int v)
+{
+  const int corners[6] = int[6] (0, 1, 2, 2, 1, 3);
+  int c = corners[v % 6];
+  return vec2 (float (c & 1), float (c >> 1)) * 2.0 - 1.0;
+}
+
 // The size of one pixel in view units at view depth z (< 0).
 float qv_pixel_size (float z)
 {
@@ -54,15 +63,17 @@ float qv_pixel_size (float z)
   return 2.0 * max (-z, 1e-4) / (u_proj[1][1] * u_viewport.y);
 }
 
+// sRGB ↔ linear with the gamma-2 approximation (square and square root):
+// within a few per cent of the exact curve where shading happens, and far
+// cheaper than pow() on a software rasteriser.
 vec3 qv_to_linear (vec3 c)
 {
-  return mix (c / 12.92, pow ((c + 0.055) / 1.055, vec3 (2.4)), step (0.04045, c));
+  return c * c;
 }
 
 vec3 qv_to_srgb (vec3 c)
 {
-  c = clamp (c, 0.0, 1.0);
-  return mix (c * 12.92, 1.055 * pow (c, vec3 (1.0 / 2.4)) - 0.055, step (0.0031308, c));
+  return sqrt (clamp (c, 0.0, 1.0));
 }
 
 // Lambert with a softly wrapped terminator, a broad soft highlight and a
@@ -75,10 +86,13 @@ vec3 qv_shade (vec3 base, vec3 p, vec3 n)
   vec3 l = u_light.xyz;
   float diffuse = max ((dot (n, l) + 0.15) / 1.15, 0.0);
   vec3 h = normalize (l + v);
-  float spec = pow (max (dot (n, h), 0.0), 32.0) * 0.22;
+  // A soft highlight: (n·h)^32 by repeated squaring.
+  float nh = max (dot (n, h), 0.0);
+  nh *= nh; nh *= nh; nh *= nh; nh *= nh; nh *= nh;
+  float spec = nh * 0.22;
   vec3 c = albedo * (u_light.w + (1.0 - u_light.w) * diffuse) + vec3 (spec);
   float f = clamp ((-p.z - u_cue.x) / max (u_cue.y - u_cue.x, 1e-3), 0.0, 1.0) * u_cue.z;
-  c = mix (c, qv_to_linear (u_bg.rgb), f);
+  c = mix (c, u_bg.rgb * u_bg.rgb, f);
   return qv_to_srgb (c);
 }
 

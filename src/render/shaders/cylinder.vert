@@ -1,11 +1,12 @@
 #version 330 core
-// cylinder.vert — one bond per instance: a quad in the view-space plane in
+// cylinder.vert — one bond per six vertices (see sphere.vert): a quad in the view-space plane in
 // front of the bond that covers both end spheres' silhouettes, ray-cast in
 // cylinder.frag. The two atoms are read from the atom buffer, so bonds
 // follow the animation.
 // SPDX-License-Identifier: GPL-3.0-or-later
 
-layout(location = 0) in uvec2 a_bond;
+// The two atoms of each bond.
+uniform usamplerBuffer u_bonds;
 
 out vec3 v_pos;
 flat out vec3 v_a;
@@ -27,7 +28,8 @@ float cover_radius (vec3 c, float r, float zq)
 
 void main ()
 {
-  int ia = int (a_bond.x), ib = int (a_bond.y);
+  uvec2 bond = texelFetch (u_bonds, gl_VertexID / 6).xy;
+  int ia = int (bond.x), ib = int (bond.y);
   vec3 a = (u_view * vec4 (qv_atom_position (ia), 1.0)).xyz;
   vec3 b = (u_view * vec4 (qv_atom_position (ib), 1.0)).xyz;
   float r = u_bond_radius;
@@ -50,7 +52,7 @@ void main ()
   u = pb - pa;
   u = dot (u, u) > 1e-12 ? normalize (u) : vec2 (1.0, 0.0);
   n = vec2 (-u.y, u.x);
-  corner = vec2 (float (gl_VertexID & 1), float (gl_VertexID >> 1)) * 2.0 - 1.0;
+  corner = qv_quad_corner (gl_VertexID);
   p = (corner.y < 0.0 ? pa - u * w : pb + u * w) + n * (corner.x * w);
   v_pos = vec3 (p, zq);
   v_a = a;

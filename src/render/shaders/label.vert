@@ -1,5 +1,5 @@
 #version 330 core
-// label.vert — one glyph per instance, a screen-aligned quad in front of
+// label.vert — one glyph per six vertices, a screen-aligned quad in front of
 // its atom (at the sphere's nearest point), sized in pixels.
 // SPDX-License-Identifier: GPL-3.0-or-later
 
@@ -18,7 +18,7 @@ void main ()
   float r = qv_atom_radius (i);
   vec3 front = c + (u_ortho > 0.5 ? vec3 (0.0, 0.0, 1.0) : normalize (-c)) * r;
   vec4 clip = u_proj * vec4 (front, 1.0);
-  vec2 corner = vec2 (float (gl_VertexID & 1), float (gl_VertexID >> 1));
+  vec2 corner = qv_quad_corner (gl_VertexID) * 0.5 + 0.5;
   vec2 px = vec2 (a_offset.x + corner.x * a_offset.y, corner.y - 0.5) * u_label_px;
 
   clip.xy += px * 2.0 * u_viewport.zw * clip.w;

@@ -1,5 +1,7 @@
 #version 330 core
-// sphere.vert — one atom per instance: a view-space quad that just covers
+// sphere.vert — one atom per six vertices (two triangles; llvmpipe runs
+// its vertex pipeline once per instance, so plain vertex ranges are much
+// faster than instancing there): a view-space quad that just covers
 // the sphere's silhouette (the tangent cone's circle in the plane through
 // the centre, perpendicular to the line of sight), ray-cast in sphere.frag.
 // SPDX-License-Identifier: GPL-3.0-or-later
@@ -12,10 +14,10 @@ flat out int v_atom;
 
 void main ()
 {
-  int i = gl_InstanceID;
+  int i = gl_VertexID / 6;
   vec3 c = (u_view * vec4 (qv_atom_position (i), 1.0)).xyz;
   float r = qv_atom_radius (i);
-  vec2 corner = vec2 (float (gl_VertexID & 1), float (gl_VertexID >> 1)) * 2.0 - 1.0;
+  vec2 corner = qv_quad_corner (gl_VertexID);
   // A pixel and a half of margin for the antialiased edge.
   float margin = 1.5 * qv_pixel_size (c.z + r);
   vec3 pos;

@@ -1,0 +1,235 @@
+/* bench-render.c — frames per second of the renderer offscreen (EGL
+ * surfaceless; llvmpipe on machines without a GPU) and the time to the
+ * first frame of the demo. Measures and reports; never fails on a figure.
+ *
+ *   bench-render [--frames N] [--width W] [--height H] [--samples S]
+ *                [--no-arrows] [--no-bonds]
+ *
+ * Structures for the frame rate are invented here: parallel zigzag
+ * hydrocarbon chains (C–C 1.54 Å, C–H 1.09 Å, tetrahedral-like angles,
+ * chains 4.6 Å apart), so that bonds are perceived as in a real molecular
+ * crystal, with an invented smooth displacement field as the "mode".
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <epoxy/gl.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include "bench-util.h"
+#include "qv-input.h"
+#include "qv-offscreen.h"
+#include "qv-renderer.h"
+#include "qv-solver.h"
+
+static QvStructure *
+chains (gsize target)
+{
+  /* Chains of n_c carbons; grid of g × g chains, each CH2 is 3 atoms. */
+  gsize n_c = (gsize) ceil (cbrt ((double) target / 3.0) * 2.0);
+  gsize per_chain = 3 * n_c, g = (gsize) ceil (sqrt ((double) target / per_chain));
+  gsize n = 0, cap = g * g * per_chain;
+  QvStructure *s = qv_structure_new (cap, NULL);
+  const double cc = 1.54, half = 0.5 * 109.5 * G_PI / 180.0, ch = 1.09;
+  const double dx = cc * sin (half), dz = cc * cos (half) * 0.5;
+
+  for (gsize a = 0; a < g && n < target; a++)
+    for (gsize b = 0; b < g && n < target; b++)
+      for (gsize k = 0; k < n_c && n + 3 <= target; k++)
+        {
+          double x = k * dx, y = a * 4.6, z = b * 4.6 + ((k & 1) ? dz : -dz);
+          double side = (k & 1) ? 1.0 : -1.0;
+          qv_structure_set_element (s, n, 6, NULL);
+          s->atoms[n].position[0] = x;
+          s->atoms[n].position[1] = y;
+          s->atoms[n].position[2] = z;
+          n++;
+          for (int h = 0; h < 2; h++)
+            {
+              qv_structure_set_element (s, n, 1, NULL);
+              s->atoms[n].position[0] = x;
+              s->atoms[n].position[1] = y + (h ? 1.0 : -1.0) * ch * 0.816;
+              s->atoms[n].position[2] = z + side * ch * 0.577;
+              n++;
+            }
+        }
+  s->n_atoms = n;
+  return s;
+}
+
+static double
+now (void)
+{
+  return g_get_monotonic_time () / 1e6;
+}
+
+static void
+fit (QvCamera *camera, const QvStructure *s, int w, int h)
+{
+  g_autofree float *p = g_new (float, 3 * s->n_atoms);
+
+  for (gsize i = 0; i < 3 * s->n_atoms; i++)
+    p[i] = (float) s->atoms[i / 3].position[i % 3];
+  qv_camera_init (camera);
+  qv_camera_set_viewport (camera, w, h);
+  qv_camera_rotate_begin (camera, w * 0.5f, h * 0.5f);
+  qv_camera_rotate_drag (camera, w * 0.56f, h * 0.45f);
+  qv_camera_rotate_end (camera);
+  qv_camera_fit (camera, p, s->n_atoms, 1.0f);
+}
+
+static gboolean opt_no_arrows, opt_no_bonds;
+
+static void
+run_fps (QvOffscreen *off, QvRenderer *r, gsize atoms, int frames, int w, int h)
+{
+  g_autoptr(QvStructure) s = chains (atoms);
+  g_autofree float *re = g_new (float, 3 * s->n_atoms);
+  QvCamera camera;
+  double t0, t;
+  int dw, dh;
+  guint64 seed = 42;
+
+  /* An invented field: a smooth wave plus a little noise, 0.1–0.3 Å. */
+  for (gsize i = 0; i < s->n_atoms; i++)
+    for (int k = 0; k < 3; k++)
+      re[3 * i + k] = (float) (0.15 * sin (0.3 * s->atoms[i].position[0] + k)
+                               + 0.08 * (bench_uniform (&seed) - 0.5));
+  qv_offscreen_begin (off, &dw, &dh);
+  qv_renderer_set_structure (r, s);
+  qv_renderer_set_mode (r, re, NULL, 1.0f);
+  {
+    QvRenderOptions o;
+    qv_render_options_init (&o);
+    o.arrows = !opt_no_arrows;
+    o.bonds = !opt_no_bonds;
+    qv_renderer_set_options (r, &o);
+  }
+  fit (&camera, s, dw, dh);
+  /* Warm-up (shader variants, first-touch of buffers). */
+  for (int f = 0; f < 3; f++)
+    {
+      qv_renderer_set_phase (r, 0.1f * f);
+      qv_renderer_draw (r, &camera);
+    }
+  glFinish ();
+  t0 = now ();
+  for (int f = 0; f < frames; f++)
+    {
+      qv_renderer_set_phase (r, (float) (2.0 * G_PI * f / 60.0));
+      qv_renderer_draw (r, &camera);
+      glFinish ();
+    }
+  t = now () - t0;
+  printf ("%6zu atoms %6zu bonds%s%s  %4d×%d  %2d frames  %7.1f ms/frame  %6.1f fps\n",
+          s->n_atoms, qv_renderer_n_bonds (r), opt_no_bonds ? " (off)" : "",
+          opt_no_arrows ? ", no arrows" : ", arrows", w, h, frames,
+          1e3 * t / frames, frames / t);
+  fflush (stdout);
+}
+
+int
+main (int argc, char **argv)
+{
+  int frames = 60, w = 1280, h = 800, samples = 4;
+  double t0, t_ctx, t_shaders, t_upload, t_draw;
+  GError *error = NULL;
+  QvOffscreen *off;
+  QvRenderer *r;
+  guint8 pixel[4];
+
+  g_set_prgname ("bench-render");
+  for (int i = 1; i < argc; i += 2)
+    {
+      if (strcmp (argv[i], "--no-arrows") == 0)
+        {
+          opt_no_arrows = TRUE;
+          i--;
+        }
+      else if (strcmp (argv[i], "--no-bonds") == 0)
+        {
+          opt_no_bonds = TRUE;
+          i--;
+        }
+      else if (i + 1 >= argc)
+        bench_die ("%s needs a value", argv[i]);
+      else if (strcmp (argv[i], "--frames") == 0)
+        frames = atoi (argv[i + 1]);
+      else if (strcmp (argv[i], "--width") == 0)
+        w = atoi (argv[i + 1]);
+      else if (strcmp (argv[i], "--height") == 0)
+        h = atoi (argv[i + 1]);
+      else if (strcmp (argv[i], "--samples") == 0)
+        samples = atoi (argv[i + 1]);
+      else
+        bench_die ("unknown option %s", argv[i]);
+    }
+
+  /* Time to the first frame of the demo: context, shaders, upload, draw. */
+  {
+    QvInputOptions io = { .demo = TRUE };
+    g_autoptr(QvInput) input = qv_input_load (&io, &error);
+    QvSolveOptions so;
+    g_autoptr(QvModeSet) modes = NULL;
+    g_autofree double *cart = NULL;
+    g_autofree float *re = NULL;
+    QvCamera camera;
+    gsize n, k;
+    int dw, dh;
+
+    if (input == NULL)
+      bench_die ("%s", error->message);
+    qv_solve_options_init (&so);
+    modes = qv_solve (input->structure, g_steal_pointer (&input->hessian), &so, NULL, &error);
+    if (modes == NULL)
+      bench_die ("%s", error->message);
+    n = input->structure->n_atoms;
+    k = modes->n_modes - 1;
+    cart = g_new (double, 3 * n);
+    re = g_new (float, 3 * n);
+    qv_mode_set_cartesian (modes, k, cart);
+    for (gsize i = 0; i < 3 * n; i++)
+      re[i] = (float) cart[i];
+
+    t0 = now ();
+    off = qv_offscreen_new (w, h, samples, 1, &error);
+    if (off == NULL)
+      {
+        printf ("skipped: %s\n", error->message);
+        return 0;
+      }
+    t_ctx = now ();
+    r = qv_renderer_new (&error);
+    if (r == NULL)
+      bench_die ("%s", error->message);
+    t_shaders = now ();
+    qv_renderer_set_structure (r, input->structure);
+    qv_renderer_set_mode (r, re, NULL, (float) qv_mode_set_display_amplitude (modes, k, 0, 1.0, NULL));
+    t_upload = now ();
+    qv_offscreen_begin (off, &dw, &dh);
+    {
+      g_autofree float *p = g_new (float, 3 * n);
+      for (gsize i = 0; i < 3 * n; i++)
+        p[i] = (float) input->structure->atoms[i / 3].position[i % 3];
+      qv_camera_init (&camera);
+      qv_camera_set_viewport (&camera, dw, dh);
+      qv_camera_fit (&camera, p, n, 1.0f);
+    }
+    qv_renderer_draw (r, &camera);
+    glReadPixels (0, 0, 1, 1, GL_RGBA, GL_UNSIGNED_BYTE, pixel);  /* waits for the frame */
+    t_draw = now ();
+    printf ("renderer: %s\n", qv_offscreen_renderer_name (off));
+    printf ("first frame of the demo (%zu atoms, %d×%d, %d× MSAA): %.1f ms "
+            "(context %.1f, shaders %.1f, upload %.1f, draw %.1f)\n",
+            n, w, h, samples, 1e3 * (t_draw - t0), 1e3 * (t_ctx - t0),
+            1e3 * (t_shaders - t_ctx), 1e3 * (t_upload - t_shaders), 1e3 * (t_draw - t_upload));
+    fflush (stdout);
+  }
+
+  printf ("LP_NUM_THREADS=%s, targets: >= 60 fps at 1000 atoms, >= 30 fps at 10000\n",
+          g_getenv ("LP_NUM_THREADS") ? g_getenv ("LP_NUM_THREADS") : "(default)");
+  run_fps (off, r, 1000, frames, w, h);
+  run_fps (off, r, 10000, frames, w, h);
+  qv_renderer_free (r);
+  qv_offscreen_free (off);
+  return 0;
+}
