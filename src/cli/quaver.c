@@ -20,6 +20,9 @@ static const Command commands[] = {
   { "modes", qv_cmd_modes, "solve the normal modes and print the mode table" },
   { "table", qv_cmd_table, "a mode table of chosen columns (text, CSV, Markdown, LaTeX, JSON)" },
   { "displace", qv_cmd_displace, "structures displaced along modes, with a manifest" },
+  { "ensemble", qv_cmd_ensemble, "thermally sampled structures with velocities (Wigner)" },
+  { "stencil", qv_cmd_stencil, "displaced structures for a Hessian from forces" },
+  { "collect", qv_cmd_collect, "assemble the Hessian from a stencil's forces" },
 };
 
 static void

@@ -40,6 +40,9 @@ QvInput *qv_cli_input_load (const QvCliInputOptions *options, GError **error);
 gboolean qv_cli_progress (double fraction, const char *stage, gpointer user_data);
 
 int qv_cmd_modes (int argc, char **argv);
+int qv_cmd_ensemble (int argc, char **argv);
+int qv_cmd_stencil (int argc, char **argv);
+int qv_cmd_collect (int argc, char **argv);
 int qv_cmd_displace (int argc, char **argv);
 int qv_cmd_table (int argc, char **argv);
 
