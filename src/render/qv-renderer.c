@@ -132,8 +132,18 @@ texture_buffer (GLuint *buffer, GLuint *texture, GLenum format)
 static void
 fill_texture_buffer (GLuint buffer, GLuint texture, GLenum format, gsize size, const void *data)
 {
+  guint8 small[16] = { 0 };
+
+  /* Never an empty buffer; a short one is padded, not over-read. */
+  if (size < sizeof small)
+    {
+      if (data && size)
+        memcpy (small, data, size);
+      data = small;
+      size = sizeof small;
+    }
   glBindBuffer (GL_TEXTURE_BUFFER, buffer);
-  glBufferData (GL_TEXTURE_BUFFER, MAX (size, 16), data, GL_STATIC_DRAW);
+  glBufferData (GL_TEXTURE_BUFFER, size, data, GL_STATIC_DRAW);
   glBindTexture (GL_TEXTURE_BUFFER, texture);
   glTexBuffer (GL_TEXTURE_BUFFER, format, buffer);
   glBindTexture (GL_TEXTURE_BUFFER, 0);
@@ -426,7 +436,7 @@ upload_labels (QvRenderer *r)
   r->n_label_glyphs = glyphs->len / 6;
   glBindBuffer (GL_ARRAY_BUFFER, r->label_buffer);
   glBufferData (GL_ARRAY_BUFFER, sizeof (LabelGlyph) * MAX (glyphs->len, 1),
-                glyphs->data, GL_STATIC_DRAW);
+                glyphs->len ? glyphs->data : NULL, GL_STATIC_DRAW);
   glBindBuffer (GL_ARRAY_BUFFER, 0);
   g_array_free (glyphs, TRUE);
 }
