@@ -17,8 +17,11 @@
 
 /* Seeds are kept below 2⁵³ so that every JSON reader holds them exactly. */
 #define SEED_LIMIT ((guint64) 1 << 53)
-/* Samples formatted and written per round (memory stays at one block). */
-#define WRITE_BLOCK 64
+/* Samples made, formatted and written per round: up to 256 (one wide matrix
+ * product per round is what makes sampling fast, qv-ensemble.c), fewer for
+ * huge structures so a round holds at most 2²⁴ coordinates per array. */
+#define WRITE_BLOCK_MAX 256
+#define WRITE_BLOCK_COORDINATES ((gsize) 1 << 24)
 
 static const char ensemble_description[] =
   "Writes COUNT structures drawn from the harmonic Wigner distribution of\n"
@@ -143,7 +146,7 @@ qv_cmd_ensemble (int argc, char **argv)
   gboolean periodic;
   char seed_buf[32], temp_buf[G_ASCII_DTOSTR_BUF_SIZE];
   int width, status = QV_EXIT_OK;
-  gsize n;
+  gsize n, block;
   GOptionEntry entries[] = {
     { "hessian", 'H', 0, G_OPTION_ARG_FILENAME, &hessian, "Hessian file: text or NumPy .npy", "FILE" },
     { "hessian-units", 'u', 0, G_OPTION_ARG_STRING, &units,
@@ -308,8 +311,9 @@ qv_cmd_ensemble (int argc, char **argv)
     qv_manifest_add_note (manifest, *w);
 
   n = 3 * input->structure->n_atoms;
-  positions = g_try_new (double, n * WRITE_BLOCK);
-  velocities = g_try_new (double, n * WRITE_BLOCK);
+  block = CLAMP (WRITE_BLOCK_COORDINATES / n, (gsize) 1, (gsize) WRITE_BLOCK_MAX);
+  positions = g_try_new (double, n * block);
+  velocities = g_try_new (double, n * block);
   if (positions == NULL || velocities == NULL)
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_LIMIT, "not enough memory for a block of samples");
@@ -324,9 +328,9 @@ qv_cmd_ensemble (int argc, char **argv)
       single_entry = NULL;
     }
 
-  for (gint64 b0 = 0; b0 < count; b0 += WRITE_BLOCK)
+  for (gint64 b0 = 0; b0 < count; b0 += (gint64) block)
     {
-      const gsize nb = (gsize) MIN ((gint64) WRITE_BLOCK, count - b0);
+      const gsize nb = (gsize) MIN ((gint64) block, count - b0);
 
       if (!qv_ensemble_generate (ensemble, (gsize) b0, nb, positions, velocities, &stats, NULL, &error))
         goto fail;
