@@ -99,19 +99,11 @@ qv_app_actions_install (QvApplication *app)
     { "app.quit", { "<Control>q", NULL } },
     { "app.preferences", { "<Control>comma", NULL } },
     { "win.show-help-overlay", { "<Control>question", NULL } },
-    { "win.play", { "space", NULL } },
-    { "win.next-mode", { "<Alt>Down", "j", NULL } },
-    { "win.previous-mode", { "<Alt>Up", "k", NULL } },
-    { "win.toggle-arrows", { "a", NULL } },
-    { "win.toggle-participation", { "c", NULL } },
-    { "win.toggle-orthographic", { "o", NULL } },
-    { "win.view-along-x", { "1", NULL } },
-    { "win.view-along-y", { "2", NULL } },
-    { "win.view-along-z", { "3", NULL } },
-    { "win.reset-view", { "0", NULL } },
+    /* Single keys (Space, 1, 2, 3, 0, A, C, O, +, −) are the window's own
+     * shortcuts (qv-window-actions.c): they give way to text fields. */
+    { "win.next-mode", { "<Alt>Down", NULL } },
+    { "win.previous-mode", { "<Alt>Up", NULL } },
     { "win.toggle-export-pane", { "F9", NULL } },
-    { "win.level-up", { "plus", "equal", NULL } },
-    { "win.level-down", { "minus", NULL } },
     { "win.close", { "<Control>w", NULL } },
   };
 

@@ -116,7 +116,25 @@ qv_window_actions_install (QvWindow *self)
   g_autoptr(GPropertyAction) play = NULL;
   g_autoptr(GPropertyAction) pane = NULL;
 
+  static const struct { const char *trigger; const char *action; } keys[] = {
+    { "space", "win.play" },
+    { "1", "win.view-along-x" }, { "2", "win.view-along-y" }, { "3", "win.view-along-z" },
+    { "0", "win.reset-view" },
+    { "a", "win.toggle-arrows" }, { "c", "win.toggle-participation" }, { "o", "win.toggle-orthographic" },
+    { "plus", "win.level-up" }, { "equal", "win.level-up" }, { "KP_Add", "win.level-up" },
+    { "minus", "win.level-down" }, { "KP_Subtract", "win.level-down" },
+    { "j", "win.next-mode" }, { "k", "win.previous-mode" },
+  };
+  GtkEventController *shortcuts = gtk_shortcut_controller_new ();
+
   g_action_map_add_action_entries (G_ACTION_MAP (self), entries, G_N_ELEMENTS (entries), self);
+  /* Bubble phase: a focused entry or spin button gets its keys first. */
+  gtk_event_controller_set_propagation_phase (shortcuts, GTK_PHASE_BUBBLE);
+  for (gsize i = 0; i < G_N_ELEMENTS (keys); i++)
+    gtk_shortcut_controller_add_shortcut (GTK_SHORTCUT_CONTROLLER (shortcuts),
+                                          gtk_shortcut_new (gtk_shortcut_trigger_parse_string (keys[i].trigger),
+                                                            gtk_named_action_new (keys[i].action)));
+  gtk_widget_add_controller (GTK_WIDGET (self), shortcuts);
   /* Toggles are the properties they change: their state follows. */
   for (gsize i = 0; i < G_N_ELEMENTS (toggles); i++)
     {

@@ -304,7 +304,21 @@ load_done (GObject *source, GAsyncResult *result, gpointer data)
         {
           qv_window_set_document (self, doc);
           if (call->uri)
-            gtk_recent_manager_add_item (gtk_recent_manager_get_default (), call->uri);
+            {
+              /* Every field given: with add_item's defaults, GLib 2.74's
+               * bookmark reader can crash on the entry when it is read back. */
+              g_autofree char *exec = g_strdup_printf ("%s %%u", g_get_prgname () ? g_get_prgname () : "quaver");
+              GtkRecentData recent = {
+                .display_name = NULL,
+                .description = NULL,
+                .mime_type = (char *) (g_str_has_suffix (call->uri, ".json") ? "application/json" : "chemical/x-xyz"),
+                .app_name = (char *) g_get_application_name (),
+                .app_exec = exec,
+                .groups = NULL,
+                .is_private = FALSE,
+              };
+              gtk_recent_manager_add_full (gtk_recent_manager_get_default (), call->uri, &recent);
+            }
         }
       else if (!g_error_matches (error, G_IO_ERROR, G_IO_ERROR_CANCELLED))
         qv_window_show_error (self, _("The file could not be opened"), error);

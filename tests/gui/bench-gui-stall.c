@@ -2,10 +2,8 @@
  * stalls while it opens and solves a large system through the same GTask
  * path as File ▸ Open.
  *
- * The system is invented: N atoms (default 2000, a 6000×6000 Hessian) at
- * random positions in a box of density like an organic solid, with springs
- * of random stiffness (2–20 eV/Å²) between all pairs closer than 3 Å
- * (qvt_random_molecule and qvt_spring_network, tests/unit): a physical,
+ * The system is invented: N atoms (default 2000, a 6000×6000 Hessian), the
+ * elastic network of qvg_spring_system (gui-test-util.h): a physical,
  * positive semi-definite Hessian with exact rigid-body zero modes. It is
  * written as an XYZ file and a NumPy .npy matrix into the build dir and
  * opened with units eV/Å², so reading, solving and showing are all timed.
@@ -23,7 +21,6 @@
 #include <string.h>
 #include "gui-test-util.h"
 #include "qv-element.h"
-#include "qv-test-util.h"
 
 typedef struct {
   GArray *timer;        /* gint64 µs, one per timer callback */
@@ -135,9 +132,7 @@ main (int argc, char **argv)
     if (strcmp (argv[i], "--atoms") == 0)
       n_atoms = (gsize) g_ascii_strtoull (argv[i + 1], NULL, 10);
 
-  /* Density ≈ 0.1 atoms/Å³. */
-  s = qvt_random_molecule (n_atoms, 2024, cbrt ((double) n_atoms / 0.1));
-  h = qvt_spring_network (s, 99, 3.0, 2.0, 20.0);
+  s = qvg_spring_system (n_atoms, 2024, &h);
   xyz = qvg_build_path ("bench-stall.xyz");
   npy = qvg_build_path ("bench-stall.npy");
   write_xyz (xyz, s);

@@ -1,6 +1,8 @@
 /* gui-test-util.c — driving the app in tests.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <glib/gstdio.h>
+#include <math.h>
+#include <stdlib.h>
 #include "gui-test-util.h"
 #include "qv-gui.h"
 
@@ -135,4 +137,57 @@ qvg_build_path (const char *name)
 
   g_mkdir_with_parents (dir, 0755);
   return g_build_filename (dir, name, NULL);
+}
+
+QvStructure *
+qvg_spring_system (gsize n, guint32 seed, QvHessian **hessian)
+{
+  const double spacing = 1.5, jitter = 0.25, cutoff = 2.4;
+  g_autoptr(GRand) rand = g_rand_new_with_seed (seed);
+  QvStructure *s = qv_structure_new (n, NULL);
+  QvHessian *h = qv_hessian_new (3 * n, TRUE, NULL);
+  gsize side = 1;
+
+  while (side * side * side < n)
+    side++;
+  for (gsize a = 0; a < n; a++)
+    {
+      const gsize cell[3] = { a % side, (a / side) % side, a / (side * side) };
+      const double u = g_rand_double (rand);
+      qv_structure_set_element (s, a, u < 0.5 ? 1 : u < 0.8 ? 6 : u < 0.9 ? 7 : 8, NULL);
+      for (int c = 0; c < 3; c++)
+        s->atoms[a].position[c] = spacing * (double) cell[c] + g_rand_double_range (rand, -jitter, jitter);
+    }
+  /* Neighbours lie within two lattice steps: compare lattice indices. */
+  for (gsize a = 0; a < n; a++)
+    for (gsize b = a + 1; b < n; b++)
+      {
+        const long da = (long) (a % side) - (long) (b % side);
+        const long db = (long) ((a / side) % side) - (long) ((b / side) % side);
+        const long dc = (long) (a / (side * side)) - (long) (b / (side * side));
+        double d[3], r2 = 0.0, r, k;
+
+        if (labs (da) > 2 || labs (db) > 2 || labs (dc) > 2)
+          continue;
+        for (int c = 0; c < 3; c++)
+          {
+            d[c] = s->atoms[b].position[c] - s->atoms[a].position[c];
+            r2 += d[c] * d[c];
+          }
+        if (r2 >= cutoff * cutoff)
+          continue;
+        r = sqrt (r2);
+        k = g_rand_double_range (rand, 2.0, 20.0);
+        for (int i = 0; i < 3; i++)
+          for (int j = 0; j < 3; j++)
+            {
+              const double v = k * d[i] * d[j] / (r * r);
+              h->data[(3 * a + i) * 3 * n + 3 * a + j] += v;
+              h->data[(3 * b + i) * 3 * n + 3 * b + j] += v;
+              h->data[(3 * a + i) * 3 * n + 3 * b + j] -= v;
+              h->data[(3 * b + i) * 3 * n + 3 * a + j] -= v;
+            }
+      }
+  *hessian = h;
+  return s;
 }

@@ -4,6 +4,8 @@
 #pragma once
 #include <gtk/gtk.h>
 #include "qv-application.h"
+#include "qv-hessian.h"
+#include "qv-structure.h"
 #include "qv-window.h"
 
 /* The application, registered (startup has run: styles, actions). */
@@ -26,3 +28,12 @@ guchar *qvg_pixels (GdkTexture *texture, gsize *stride);
 guint qvg_count_colours (const guchar *pixels, gsize stride, int x, int y, int w, int h);
 /* A file in the build tree's tests/gui directory (created). */
 char *qvg_build_path (const char *name);
+
+/* An invented system: @n atoms on a jittered cubic lattice (1.5 Å, ±0.25 Å,
+ * elements drawn H 50 %, C 30 %, N 10 %, O 10 %), a spring of random
+ * stiffness in [2, 20] eV/Å² at its rest length between every pair closer
+ * than 2.4 Å. Its Hessian, H_ab = −k uuᵀ and H_aa = Σ k uuᵀ (an elastic
+ * network), is exactly symmetric and positive semi-definite with exact
+ * rigid-body zero modes. Fixed seed; fast for thousands of atoms (cell
+ * list). */
+QvStructure *qvg_spring_system (gsize n, guint32 seed, QvHessian **hessian);

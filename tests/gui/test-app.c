@@ -18,7 +18,6 @@
 #include "qv-motion-bar.h"
 #include "qv-preferences.h"
 #include "qv-solver.h"
-#include "qv-test-util.h"
 
 static QvWindow *
 demo_window (void)
@@ -381,9 +380,9 @@ test_cancel_keeps_document (void **state)
 {
   QvWindow *window = qvg_window ();
   g_autoptr(GError) error = NULL;
-  /* Invented: 450 atoms in a box with random springs (tests/unit). */
-  QvStructure *s = qvt_random_molecule (450, 7, 14.0);
-  QvHessian *h = qvt_spring_network (s, 11, 3.0, 2.0, 20.0);
+  /* Invented: an elastic network of 450 atoms (gui-test-util.h). */
+  QvHessian *h = NULL;
+  QvStructure *s = qvg_spring_system (450, 7, &h);
   g_autoptr(QvDocument) doc = qv_document_new_solved ("springs", s, h, &error);
   const QvModeSet *modes;
   QvStructure *heavier;
