@@ -59,13 +59,13 @@ main (int argc, char **argv)
   setlocale (LC_ALL, "");
   setlocale (LC_NUMERIC, "C");
 
-  if (argc < 2)
-    {
-      print_usage (stderr);
 #ifdef QV_HAVE_GUI
   if (argc < 2)
     return qv_gui_run (argc, argv);
 #endif
+  if (argc < 2)
+    {
+      print_usage (stderr);
       fprintf (stderr, "\nquaver: the desktop app is not part of this build yet; "
                        "use a command such as 'quaver modes --demo'\n");
       return QV_EXIT_USAGE;
@@ -91,9 +91,6 @@ main (int argc, char **argv)
     if (strcmp (argv[1], commands[i].name) == 0)
       return commands[i].run (argc - 1, argv + 1);
 
-  if (argv[1][0] == '-')
-    fprintf (stderr, "quaver: unknown option '%s'\n", argv[1]);
-  else if (g_file_test (argv[1], G_FILE_TEST_EXISTS))
 #ifdef QV_HAVE_GUI
   /* Not a command: the app, with files and --demo only. Anything else is
    * refused here, before a display or a bus is touched. */
@@ -110,6 +107,9 @@ main (int argc, char **argv)
       }
   return qv_gui_run (argc, argv);
 #endif
+  if (argv[1][0] == '-')
+    fprintf (stderr, "quaver: unknown option '%s'\n", argv[1]);
+  else if (g_file_test (argv[1], G_FILE_TEST_EXISTS))
     fprintf (stderr, "quaver: the desktop app is not part of this build yet; "
                      "to see the modes of %s run 'quaver modes %s'\n", argv[1], argv[1]);
   else
