@@ -1,10 +1,11 @@
 /* qv-renderer.c — a structure and one animated mode with OpenGL 3.3 core:
- * impostor spheres and cylinders, arrows, cell edges and labels, one draw
- * call each. Not instanced: llvmpipe (the floor, no GPU) runs its whole
- * vertex pipeline once per instance, so each primitive is a range of
- * vertices whose index gives the atom, bond or glyph (6 per quad). The atoms' rest positions and displacement field
- * live in a texture buffer uploaded once per mode; per frame only the
- * phase changes (one small uniform block).
+ * ray-cast impostor spheres, cylinders and arrows, cell edges and labels,
+ * one draw call each (two with analytic antialiasing). Not instanced:
+ * llvmpipe (the floor, no GPU) runs its whole vertex pipeline once per
+ * instance, so each impostor is a quad of four indexed vertices whose
+ * index gives the atom, bond or arrow. The atoms' rest positions and
+ * displacement field live in a texture buffer uploaded once per mode; per
+ * frame only the phase changes (one small uniform block).
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <epoxy/gl.h>
 #include <math.h>
@@ -14,14 +15,20 @@
 #include "qv-renderer.h"
 #include "qv-renderer-private.h"
 
-enum { PROG_SPHERE, PROG_CYLINDER, PROG_ARROW, PROG_LINE, PROG_LABEL, N_PROGRAMS };
+/* The impostors come twice: as they are, and for the second pass of the
+ * analytic antialiasing (QV_FRINGE: no gl_FragDepth, so that llvmpipe
+ * depth-tests before shading and skips the covered inside). */
+enum {
+  PROG_SPHERE, PROG_CYLINDER, PROG_ARROW, PROG_LINE, PROG_LABEL,
+  PROG_SPHERE_FRINGE, PROG_CYLINDER_FRINGE, PROG_ARROW_FRINGE, N_PROGRAMS
+};
+#define FRINGE (PROG_SPHERE_FRINGE - PROG_SPHERE)
 static const char *const program_names[N_PROGRAMS] = {
-  "sphere", "cylinder", "arrow", "line", "label",
+  "sphere", "cylinder", "arrow", "line", "label", "sphere", "cylinder", "arrow",
 };
 
-/* Must match SEGMENTS in shaders/arrow.vert. */
-#define ARROW_SEGMENTS 10
-#define ARROW_MESH (5 * ARROW_SEGMENTS + 1)
+/* Edge treatments, the QV_AA_* of shaders/common.glsl. */
+enum { AA_COVERAGE, AA_SOLID, AA_INNER, AA_FRINGE };
 
 /* Mirrors the std140 block Frame in shaders/common.glsl. */
 typedef struct {
@@ -40,10 +47,12 @@ typedef struct {
   float ortho;
   float label_px;
   float arrow_scale;
-  float pad0;
+  float cos_phase, sin_phase;
+  float px_scale;
+  float pad[2];
 } FrameBlock;
 
-G_STATIC_ASSERT (sizeof (FrameBlock) == 256);
+G_STATIC_ASSERT (sizeof (FrameBlock) == 272);
 
 typedef struct {
   guint32 atom;
@@ -53,14 +62,16 @@ typedef struct {
 
 struct _QvRenderer {
   GLuint programs[N_PROGRAMS];
+  GLint aa_location[N_PROGRAMS];            /* u_aa, −1 where unused */
   GLuint ubo;
   GLuint atom_buffer, atom_texture;       /* 3 RGBA32F texels per atom */
   GLuint colour_buffer, colour_texture;   /* 1 RGBA8 texel per atom */
-  GLuint sphere_vao;
+  GLuint quad_vao, quad_indices;           /* 0 1 2 2 1 3 + 4q per quad */
+  gsize n_quads;                            /* how many the indices cover */
   GLuint bond_buffer, bond_texture;         /* RG32UI: the two atoms */
-  GLuint arrow_vao, arrow_indices, arrow_buffer, arrow_texture;  /* R32UI: atoms */
-  GLushort arrow_mesh[4 * ARROW_SEGMENTS * 3];
-  GLsizei arrow_n_indices;                  /* per arrow */
+  GLuint arrow_buffer, arrow_texture;       /* R32UI: atoms */
+  GLuint msaa_fbo, msaa_colour, msaa_depth; /* options.samples > 0 */
+  int msaa_width, msaa_height, msaa_samples;
   GLuint cell_vao, cell_buffer;
   GLuint label_vao, label_buffer, atlas_texture;
   QvLabelAtlas *atlas;
@@ -96,6 +107,8 @@ qv_render_options_init (QvRenderOptions *options)
     .arrow_threshold = 0.02f,
     .depth_cue = TRUE,
     .bond_radius = 0.13f,
+    .antialias = QV_ANTIALIAS_EDGES,
+    .samples = 0,
   };
 }
 
@@ -150,35 +163,29 @@ fill_texture_buffer (GLuint buffer, GLuint texture, GLenum format, gsize size, c
   glBindBuffer (GL_TEXTURE_BUFFER, 0);
 }
 
-/* The triangles of one arrow over the vertices arrow.vert generates: rings
- * 0 (shaft bottom), S (shaft top), 2S (head underside), the centre 3S, the
- * cone ring 3S+1 and the tips 4S+1. */
+/* Indices for at least @n quads of four vertices: two triangles each. */
 static void
-build_arrow_mesh (QvRenderer *r)
+ensure_quads (QvRenderer *r, gsize n)
 {
-  const int S = ARROW_SEGMENTS;
-  int ni = 0;
+  gsize cap = MAX (r->n_quads, 256);
+  guint32 *idx;
 
-  for (int k = 0; k < S; k++)
+  if (n <= r->n_quads)
+    return;
+  while (cap < n)
+    cap *= 2;
+  idx = g_new (guint32, 6 * cap);
+  for (gsize q = 0; q < cap; q++)
     {
-      int k1 = (k + 1) % S;
-      GLushort tri[4][3] = {
-        { k, k1, S + k },
-        { S + k, k1, S + k1 },
-        { 3 * S, 2 * S + k1, 2 * S + k },
-        { 3 * S + 1 + k, 3 * S + 1 + k1, 4 * S + 1 + k },
-      };
-      memcpy (r->arrow_mesh + ni, tri, sizeof tri);
-      ni += 12;
+      static const guint32 pattern[6] = { 0, 1, 2, 2, 1, 3 };
+      for (int k = 0; k < 6; k++)
+        idx[6 * q + k] = (guint32) (4 * q) + pattern[k];
     }
-  r->arrow_n_indices = ni;
-  glGenVertexArrays (1, &r->arrow_vao);
-  glBindVertexArray (r->arrow_vao);
-  glGenBuffers (1, &r->arrow_indices);
-  glBindBuffer (GL_ELEMENT_ARRAY_BUFFER, r->arrow_indices);
-  glBufferData (GL_ELEMENT_ARRAY_BUFFER, 16, NULL, GL_STATIC_DRAW);
+  glBindVertexArray (r->quad_vao);
+  glBufferData (GL_ELEMENT_ARRAY_BUFFER, sizeof (guint32) * 6 * cap, idx, GL_STATIC_DRAW);
   glBindVertexArray (0);
-  texture_buffer (&r->arrow_buffer, &r->arrow_texture, GL_R32UI);
+  g_free (idx);
+  r->n_quads = cap;
 }
 
 QvRenderer *
@@ -188,13 +195,17 @@ qv_renderer_new (GError **error)
 
   for (int p = 0; p < N_PROGRAMS; p++)
     {
-      r->programs[p] = qv_shader_program_load (program_names[p], error);
+      r->programs[p] = qv_shader_program_load_defines (program_names[p],
+                                                       p >= PROG_SPHERE_FRINGE
+                                                       ? "#define QV_FRINGE 1\n" : NULL,
+                                                       error);
       if (r->programs[p] == 0)
         {
           qv_renderer_free (r);
           return NULL;
         }
       setup_program (r->programs[p]);
+      r->aa_location[p] = glGetUniformLocation (r->programs[p], "u_aa");
     }
   qv_render_options_init (&r->options);
   r->highlight = -1;
@@ -217,11 +228,15 @@ qv_renderer_new (GError **error)
   glTexBuffer (GL_TEXTURE_BUFFER, GL_RGBA8, r->colour_buffer);
   glBindTexture (GL_TEXTURE_BUFFER, 0);
 
-  glGenVertexArrays (1, &r->sphere_vao);
+  glGenVertexArrays (1, &r->quad_vao);
+  glBindVertexArray (r->quad_vao);
+  glGenBuffers (1, &r->quad_indices);
+  glBindBuffer (GL_ELEMENT_ARRAY_BUFFER, r->quad_indices);
+  glBindVertexArray (0);
+  ensure_quads (r, 256);
 
   texture_buffer (&r->bond_buffer, &r->bond_texture, GL_RG32UI);
-
-  build_arrow_mesh (r);
+  texture_buffer (&r->arrow_buffer, &r->arrow_texture, GL_R32UI);
 
   glGenVertexArrays (1, &r->cell_vao);
   glBindVertexArray (r->cell_vao);
@@ -252,7 +267,7 @@ qv_renderer_new (GError **error)
 void
 qv_renderer_free (QvRenderer *r)
 {
-  GLuint buffers[10], vaos[4], textures[5];
+  GLuint buffers[10], vaos[4], textures[5], rbs[2];
 
   if (r == NULL)
     return;
@@ -264,14 +279,14 @@ qv_renderer_free (QvRenderer *r)
   buffers[2] = r->colour_buffer;
   buffers[3] = r->bond_buffer;
   buffers[4] = 0;
-  buffers[5] = r->arrow_indices;
+  buffers[5] = r->quad_indices;
   buffers[6] = r->arrow_buffer;
   buffers[7] = r->cell_buffer;
   buffers[8] = r->label_buffer;
   buffers[9] = 0;
   glDeleteBuffers (10, buffers);
-  vaos[0] = r->sphere_vao;
-  vaos[1] = r->arrow_vao;
+  vaos[0] = r->quad_vao;
+  vaos[1] = 0;
   vaos[2] = r->cell_vao;
   vaos[3] = r->label_vao;
   glDeleteVertexArrays (4, vaos);
@@ -281,6 +296,11 @@ qv_renderer_free (QvRenderer *r)
   textures[3] = r->bond_texture;
   textures[4] = r->arrow_texture;
   glDeleteTextures (5, textures);
+  rbs[0] = r->msaa_colour;
+  rbs[1] = r->msaa_depth;
+  glDeleteRenderbuffers (2, rbs);
+  if (r->msaa_fbo)
+    glDeleteFramebuffers (1, &r->msaa_fbo);
   qv_label_atlas_free (r->atlas);
   g_free (r->z);
   g_free (r->rest);
@@ -362,20 +382,7 @@ upload_arrows (QvRenderer *r)
           list[r->n_arrows++] = (guint32) i;
       }
   fill_texture_buffer (r->arrow_buffer, r->arrow_texture, GL_R32UI, 4 * r->n_arrows, list);
-  /* Indices a·MESH + v: with a vertex cache each mesh vertex is shaded once. */
-  if (r->n_arrows > 0)
-    {
-      gsize ni = (gsize) r->arrow_n_indices;
-      guint32 *idx = g_new (guint32, ni * r->n_arrows);
-      for (gsize a = 0; a < r->n_arrows; a++)
-        for (gsize k = 0; k < ni; k++)
-          idx[a * ni + k] = (guint32) (a * ARROW_MESH + r->arrow_mesh[k]);
-      glBindVertexArray (r->arrow_vao);
-      glBufferData (GL_ELEMENT_ARRAY_BUFFER, sizeof (guint32) * ni * r->n_arrows, idx,
-                    GL_STATIC_DRAW);
-      glBindVertexArray (0);
-      g_free (idx);
-    }
+  ensure_quads (r, r->n_arrows);
 }
 
 static void
@@ -503,6 +510,7 @@ qv_renderer_set_structure (QvRenderer *r, const QvStructure *structure)
 
   bonds = qv_bonds_perceive (structure, QV_BONDS_DEFAULT_TOLERANCE, &n_bonds);
   r->n_bonds = n_bonds;
+  ensure_quads (r, MAX (n, n_bonds));
   fill_texture_buffer (r->bond_buffer, r->bond_texture, GL_RG32UI, sizeof (QvBond) * n_bonds, bonds);
 
   /* Cell edges: the 12 edges between the corners i·a + j·b + k·c. */
@@ -601,6 +609,7 @@ qv_renderer_set_options (QvRenderer *r, const QvRenderOptions *options)
     r->options.atom_scale = 1.0f;
   if (!(r->options.bond_radius > 0.0f))
     r->options.bond_radius = 0.13f;
+  r->options.samples = r->options.samples <= 0 ? 0 : r->options.samples <= 2 ? 2 : 4;
   if (old.colouring != r->options.colouring && r->n_atoms > 0)
     upload_colours (r);
   if (old.arrow_threshold != r->options.arrow_threshold)
@@ -658,22 +667,94 @@ fill_frame (QvRenderer *r, const QvCamera *camera, FrameBlock *f)
   f->ortho = camera->projection == QV_CAMERA_ORTHOGRAPHIC ? 1.0f : 0.0f;
   f->label_px = CLAMP ((float) camera->height / 34.0f, 16.0f, 96.0f);
   f->arrow_scale = r->options.arrow_scale;
+  f->cos_phase = cosf (r->phase);
+  f->sin_phase = sinf (r->phase);
+  f->px_scale = 2.0f / (proj[1][1] * (float) camera->height);
+}
+
+/* The renderer's own multisampled framebuffer (options.samples), sized
+ * @w × @h; FALSE when it cannot be made (then it draws directly). */
+static gboolean
+ensure_msaa (QvRenderer *r, int w, int h)
+{
+  GLint max_samples = 0;
+  int samples;
+
+  glGetIntegerv (GL_MAX_SAMPLES, &max_samples);
+  samples = MIN (r->options.samples, max_samples);
+  if (samples <= 0)
+    return FALSE;
+  if (r->msaa_fbo && r->msaa_width == w && r->msaa_height == h && r->msaa_samples == samples)
+    return TRUE;
+  if (r->msaa_fbo == 0)
+    {
+      glGenFramebuffers (1, &r->msaa_fbo);
+      glGenRenderbuffers (1, &r->msaa_colour);
+      glGenRenderbuffers (1, &r->msaa_depth);
+    }
+  glBindRenderbuffer (GL_RENDERBUFFER, r->msaa_colour);
+  glRenderbufferStorageMultisample (GL_RENDERBUFFER, samples, GL_RGBA8, w, h);
+  glBindRenderbuffer (GL_RENDERBUFFER, r->msaa_depth);
+  glRenderbufferStorageMultisample (GL_RENDERBUFFER, samples, GL_DEPTH_COMPONENT24, w, h);
+  glBindRenderbuffer (GL_RENDERBUFFER, 0);
+  glBindFramebuffer (GL_DRAW_FRAMEBUFFER, r->msaa_fbo);
+  glFramebufferRenderbuffer (GL_DRAW_FRAMEBUFFER, GL_COLOR_ATTACHMENT0, GL_RENDERBUFFER, r->msaa_colour);
+  glFramebufferRenderbuffer (GL_DRAW_FRAMEBUFFER, GL_DEPTH_ATTACHMENT, GL_RENDERBUFFER, r->msaa_depth);
+  if (glCheckFramebufferStatus (GL_DRAW_FRAMEBUFFER) != GL_FRAMEBUFFER_COMPLETE)
+    {
+      g_warning ("the renderer's %d× multisampled framebuffer is incomplete; drawing without", samples);
+      r->options.samples = 0;
+      return FALSE;
+    }
+  r->msaa_width = w;
+  r->msaa_height = h;
+  r->msaa_samples = samples;
+  return TRUE;
+}
+
+/* The impostors (spheres, bonds, arrows) with edge treatment @aa. */
+static void
+draw_impostors (QvRenderer *r, int aa)
+{
+  int shift = aa == AA_FRINGE ? FRINGE : 0;
+
+  glBindVertexArray (r->quad_vao);
+  glUseProgram (r->programs[PROG_SPHERE + shift]);
+  glUniform1i (r->aa_location[PROG_SPHERE + shift], aa);
+  glDrawElements (GL_TRIANGLES, 6 * (GLsizei) r->n_atoms, GL_UNSIGNED_INT, NULL);
+  if (r->options.bonds && r->n_bonds > 0)
+    {
+      glUseProgram (r->programs[PROG_CYLINDER + shift]);
+      glUniform1i (r->aa_location[PROG_CYLINDER + shift], aa);
+      glDrawElements (GL_TRIANGLES, 6 * (GLsizei) r->n_bonds, GL_UNSIGNED_INT, NULL);
+    }
+  if (r->options.arrows && r->n_arrows > 0)
+    {
+      glUseProgram (r->programs[PROG_ARROW + shift]);
+      glUniform1i (r->aa_location[PROG_ARROW + shift], aa);
+      glDrawElements (GL_TRIANGLES, 6 * (GLsizei) r->n_arrows, GL_UNSIGNED_INT, NULL);
+    }
 }
 
 void
 qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
 {
   FrameBlock frame;
-  GLint sample_buffers = 0;
+  GLint sample_buffers = 0, target = 0;
+  gboolean own_msaa;
 
   fill_frame (r, camera, &frame);
+  glGetIntegerv (GL_DRAW_FRAMEBUFFER_BINDING, &target);
+  own_msaa = r->options.samples > 0 && ensure_msaa (r, camera->width, camera->height);
+  if (own_msaa)
+    glBindFramebuffer (GL_DRAW_FRAMEBUFFER, r->msaa_fbo);
   glViewport (0, 0, camera->width, camera->height);
   glClearColor (frame.bg[0], frame.bg[1], frame.bg[2], frame.bg[3]);
   glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_TRUE);
   glDepthMask (GL_TRUE);
   glClear (GL_COLOR_BUFFER_BIT | GL_DEPTH_BUFFER_BIT);
   if (r->n_atoms == 0)
-    return;
+    goto resolve;
 
   glBindBuffer (GL_UNIFORM_BUFFER, r->ubo);
   glBufferSubData (GL_UNIFORM_BUFFER, 0, sizeof frame, &frame);
@@ -698,34 +779,36 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
    * coverage in alpha, not transparency. */
   glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_FALSE);
 
-  /* Ordinary geometry first: its depth test happens before shading, and
-   * it then hides impostor fragments behind it. */
   if (r->options.cell && r->has_cell)
     {
       glUseProgram (r->programs[PROG_LINE]);
       glBindVertexArray (r->cell_vao);
       glDrawArrays (GL_LINES, 0, 24);
     }
-  if (r->options.arrows && r->n_arrows > 0)
-    {
-      glUseProgram (r->programs[PROG_ARROW]);
-      glBindVertexArray (r->arrow_vao);
-      glDrawElements (GL_TRIANGLES, r->arrow_n_indices * (GLsizei) r->n_arrows,
-                      GL_UNSIGNED_INT, NULL);
-    }
 
   glGetIntegerv (GL_SAMPLE_BUFFERS, &sample_buffers);
   if (sample_buffers > 0)
-    glEnable (GL_SAMPLE_ALPHA_TO_COVERAGE);
-  glUseProgram (r->programs[PROG_SPHERE]);
-  glBindVertexArray (r->sphere_vao);
-  glDrawArrays (GL_TRIANGLES, 0, 6 * (GLsizei) r->n_atoms);
-  if (r->options.bonds && r->n_bonds > 0)
     {
-      glUseProgram (r->programs[PROG_CYLINDER]);
-      glDrawArrays (GL_TRIANGLES, 0, 6 * (GLsizei) r->n_bonds);
+      /* Multisampled: the edges' coverage goes to the samples. */
+      glEnable (GL_SAMPLE_ALPHA_TO_COVERAGE);
+      draw_impostors (r, AA_COVERAGE);
+      glDisable (GL_SAMPLE_ALPHA_TO_COVERAGE);
     }
-  glDisable (GL_SAMPLE_ALPHA_TO_COVERAGE);
+  else if (r->options.antialias == QV_ANTIALIAS_NONE)
+    draw_impostors (r, AA_SOLID);
+  else
+    {
+      /* Fully covered pixels first, opaque; then the partly covered ones
+       * blended over whatever the first pass left behind them, without
+       * writing depth: right whatever the drawing order. */
+      draw_impostors (r, AA_INNER);
+      glEnable (GL_BLEND);
+      glBlendFunc (GL_SRC_ALPHA, GL_ONE_MINUS_SRC_ALPHA);
+      glDepthMask (GL_FALSE);
+      draw_impostors (r, AA_FRINGE);
+      glDepthMask (GL_TRUE);
+      glDisable (GL_BLEND);
+    }
 
   if (r->options.labels && r->n_label_glyphs > 0)
     {
@@ -741,6 +824,16 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
   glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_TRUE);
   glBindVertexArray (0);
   glUseProgram (0);
+
+resolve:
+  if (own_msaa)
+    {
+      glBindFramebuffer (GL_READ_FRAMEBUFFER, r->msaa_fbo);
+      glBindFramebuffer (GL_DRAW_FRAMEBUFFER, (GLuint) target);
+      glBlitFramebuffer (0, 0, camera->width, camera->height, 0, 0, camera->width, camera->height,
+                         GL_COLOR_BUFFER_BIT, GL_NEAREST);
+      glBindFramebuffer (GL_FRAMEBUFFER, (GLuint) target);
+    }
 }
 
 const float *

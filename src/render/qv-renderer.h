@@ -25,6 +25,13 @@ typedef enum {
   QV_COLOUR_PARTICIPATION,
 } QvAtomColouring;
 
+/* How silhouettes are antialiased when the framebuffer has one sample per
+ * pixel (a multisampled one always uses its samples). */
+typedef enum {
+  QV_ANTIALIAS_EDGES,   /* analytic: each edge's coverage blended (default) */
+  QV_ANTIALIAS_NONE,    /* hard edges: the fastest */
+} QvAntialias;
+
 typedef struct {
   gboolean bonds;
   gboolean arrows;
@@ -37,7 +44,14 @@ typedef struct {
   float arrow_threshold;   /* Å: displacements below this draw no arrow */
   /* Added by the renderer (fields only, the functions are unchanged): */
   gboolean depth_cue;      /* fade far atoms toward the background */
-  float bond_radius;       /* Å, default 0.14 */
+  float bond_radius;       /* Å, default 0.13 */
+  /* Added for speed on llvmpipe (defaults: the fast interactive look): */
+  QvAntialias antialias;   /* default QV_ANTIALIAS_EDGES */
+  int samples;             /* 0 (default): draw into the bound framebuffer;
+                            * 2 or 4: into the renderer's own multisampled
+                            * one, resolved into the bound framebuffer at the
+                            * end of qv_renderer_draw — for still pictures in
+                            * a window (4–5× slower on llvmpipe) */
 } QvRenderOptions;
 
 void qv_render_options_init (QvRenderOptions *options);

@@ -165,12 +165,15 @@ load_text (const char *file, GError **error)
 }
 
 /* Source strings: 0 the #version line of the file, 1 common.glsl, 2 the
- * rest of the file; #line keeps both files' own line numbers. */
+ * rest of the file (after any #extension lines, which go with #version);
+ * #line keeps both files' own line numbers. */
 static gboolean
-split_sources (const char *file, const char *common, char *parts[3], GError **error)
+split_sources (const char *file, const char *common, const char *defines, char *parts[3],
+               GError **error)
 {
   g_autofree char *text = load_text (file, error);
   char *nl;
+  int line = 2;
 
   if (text == NULL)
     return FALSE;
@@ -180,14 +183,26 @@ split_sources (const char *file, const char *common, char *parts[3], GError **er
                    "%s:1: must start with a #version line", file);
       return FALSE;
     }
-  parts[0] = g_strndup (text, (gsize) (nl - text + 1));
+  /* #extension lines right after #version stay before common.glsl. */
+  while (g_str_has_prefix (nl + 1, "#extension") && strchr (nl + 1, '\n'))
+    {
+      nl = strchr (nl + 1, '\n');
+      line++;
+    }
+  parts[0] = g_strdup_printf ("%.*s%s", (int) (nl - text + 1), text, defines ? defines : "");
   parts[1] = g_strconcat ("#line 1 1\n", common, "\n", NULL);
-  parts[2] = g_strconcat ("#line 2 2\n", nl + 1, NULL);
+  parts[2] = g_strdup_printf ("#line %d 2\n%s", line, nl + 1);
   return TRUE;
 }
 
 GLuint
 qv_shader_program_load (const char *name, GError **error)
+{
+  return qv_shader_program_load_defines (name, NULL, error);
+}
+
+GLuint
+qv_shader_program_load_defines (const char *name, const char *defines, GError **error)
 {
   g_autofree char *common = load_text ("common.glsl", error);
   g_autofree char *vfile = g_strconcat (name, ".vert", NULL);
@@ -201,8 +216,8 @@ qv_shader_program_load (const char *name, GError **error)
   vnames[0] = vnames[2] = vfile;
   fnames[0] = fnames[2] = ffile;
   vnames[1] = fnames[1] = "common.glsl";
-  if (split_sources (vfile, common, vparts, error)
-      && split_sources (ffile, common, fparts, error))
+  if (split_sources (vfile, common, defines, vparts, error)
+      && split_sources (ffile, common, defines, fparts, error))
     program = program_from_strings ((const char *const *) vparts, vnames,
                                     (const char *const *) fparts, fnames, 3, error);
   for (int k = 0; k < 3; k++)

@@ -1,36 +1,41 @@
 #version 330 core
-// arrow.vert — displacement arrows: a small mesh (shaft, cone, base disc)
-// of MESH vertices per arrow, indexed (not instanced, see sphere.vert),
-// vertex v of arrow a being a·MESH + v, placed at the atom's animated position, pointing along
-// its displacement, length u_arrow_scale × |displacement|, starting at the
-// sphere's surface.
+// arrow.vert — displacement arrows as ray-cast impostors, four indexed
+// vertices each (see sphere.vert): a quad in front of the arrow covering
+// it, placed at the atom's animated position, pointing along its
+// displacement, length u_arrow_scale × |displacement|, starting just inside
+// the sphere's surface. arrow.frag intersects the shaft and the head.
 // SPDX-License-Identifier: GPL-3.0-or-later
 
 // The atom of each arrow.
 uniform usamplerBuffer u_arrows;
 
-// Must match ARROW_SEGMENTS in qv-renderer.c.
-const int SEGMENTS = 10;
-const int MESH = 5 * SEGMENTS + 1;
-
 out vec3 v_pos;
-out vec3 v_normal;
+flat out vec3 v_base;        // view space: the shaft's start
+flat out vec4 v_axis;        // unit direction, length
+flat out vec4 v_shape;       // shaft length, shaft radius, head radius, head length
+flat out float v_inv_px;
+flat out vec3 v_albedo;
+flat out vec3 v_haze;
+flat out vec4 v_half;
 
 const float SHAFT = 0.055;      // Å, shaft radius
 const float HEAD = 0.14;        // Å, head radius
 const float HEAD_LENGTH = 0.34; // Å, at most
 
+// As in cylinder.vert: the radius of the circle covering sphere (c, r)
+// seen from the eye, in the plane z = zq.
+float cover_radius (vec3 c, float r, float zq)
+{
+  if (u_ortho > 0.5)
+    return r;
+  float d2 = dot (c, c);
+  float s = r * sqrt (d2 / max (d2 - r * r, 1e-6));
+  return s * sqrt (d2) / max (-c.z, 1e-4) * (zq / min (c.z, -1e-4));
+}
+
 void main ()
 {
-  int v = gl_VertexID % MESH;
-  int i = int (texelFetch (u_arrows, gl_VertexID / MESH).r);
-  // Rings 0–2 (shaft bottom, shaft top, head underside), the underside's
-  // centre, the cone's ring, then the tips between ring vertices.
-  int part = v < 3 * SEGMENTS ? v / SEGMENTS
-           : v == 3 * SEGMENTS ? 3 : v < 4 * SEGMENTS + 1 ? 4 : 5;
-  int k = v < 3 * SEGMENTS ? v % SEGMENTS : v - (part == 4 ? 3 * SEGMENTS + 1 : 4 * SEGMENTS + 1);
-  float angle = 6.28318530718 * (float (k) + (part == 5 ? 0.5 : 0.0)) / float (SEGMENTS);
-  vec2 cs = part == 3 ? vec2 (0.0) : vec2 (cos (angle), sin (angle));
+  int i = int (texelFetch (u_arrows, gl_VertexID >> 2).r);
   vec3 centre = qv_atom_position (i);
   vec3 field = texelFetch (u_atoms, 3 * i + 1).xyz;
   float amp = length (field);
@@ -41,29 +46,41 @@ void main ()
   float head_len = min (HEAD_LENGTH, 0.45 * len);
   float shrink = head_len / HEAD_LENGTH;
   float shaft_r = SHAFT * max (shrink, 0.5), head_r = HEAD * max (shrink, 0.5);
-  vec3 e1 = normalize (abs (dir.z) < 0.9 ? cross (dir, vec3 (0.0, 0.0, 1.0))
-                                         : cross (dir, vec3 (1.0, 0.0, 0.0)));
-  vec3 e2 = cross (dir, e1);
-  vec3 ring = cs.x * e1 + cs.y * e2;
   vec3 base = centre + dir * (0.85 * qv_atom_radius (i));
-  float shaft_len = len - head_len;
-  vec3 p, n;
+  vec3 a = (u_view * vec4 (base, 1.0)).xyz;
+  vec3 ax = mat3 (u_view) * dir;
+  vec3 b = a + ax * len;
+  float zq = max (a.z, b.z) + head_r;
+  vec2 pa = a.xy, pb = b.xy;
+  float margin = qv_pixel_size (zq) * qv_aa_margin ();
+  float w;
+  vec2 u, n, corner, p;
 
-  if (part == 0)        // shaft, bottom ring
-    { p = base + ring * shaft_r; n = ring; }
-  else if (part == 1)   // shaft, top ring
-    { p = base + dir * shaft_len + ring * shaft_r; n = ring; }
-  else if (part == 2)   // underside of the head
-    { p = base + dir * shaft_len + ring * head_r; n = -dir; }
-  else if (part == 3)   // centre of the underside
-    { p = base + dir * shaft_len; n = -dir; }
-  else                  // cone: ring (4) and tip (5)
+  if (u_ortho < 0.5)
     {
-      p = base + dir * (part == 5 ? len : shaft_len) + (part == 5 ? vec3 (0.0) : ring * head_r);
-      n = normalize (ring * head_len + dir * head_r);
+      zq = min (zq, -1e-3);
+      pa = a.xy * (zq / min (a.z, -1e-4));
+      pb = b.xy * (zq / min (b.z, -1e-4));
     }
-  vec4 vp = u_view * vec4 (p, 1.0);
-  v_pos = vp.xyz;
-  v_normal = mat3 (u_view) * n;
-  gl_Position = u_proj * vp;
+  w = max (cover_radius (a, head_r, zq), cover_radius (b, head_r, zq)) + margin;
+  u = pb - pa;
+  u = dot (u, u) > 1e-12 ? normalize (u) : vec2 (1.0, 0.0);
+  n = vec2 (-u.y, u.x);
+  corner = qv_quad_corner4 (gl_VertexID);
+  p = (corner.y < 0.0 ? pa - u * w : pb + u * w) + n * (corner.x * w);
+  v_pos = vec3 (p, zq);
+  v_base = a;
+  v_axis = vec4 (ax, len);
+  v_shape = vec4 (len - head_len, shaft_r, head_r, head_len);
+  v_inv_px = 1.0 / qv_pixel_at (length (0.5 * (a + b)));
+  qv_shade_setup (u_accent.rgb, 0.5 * (a + b), v_albedo, v_haze, v_half);
+  gl_Position = u_proj * vec4 (v_pos, 1.0);
+#ifdef QV_FRINGE
+  // The fringe pass tests the quad's own depth before shading (no
+  // gl_FragDepth): make it the axis's, from one end to the other.
+  {
+    vec4 e = u_proj * vec4 (corner.y < 0.0 ? a : b, 1.0);
+    gl_Position.z = e.z / e.w * gl_Position.w;
+  }
+#endif
 }
