@@ -2,6 +2,11 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <glib/gi18n.h>
 #include "qv-config.h"
+#ifdef __linux__
+#include <sys/resource.h>
+#include <sys/syscall.h>
+#include <unistd.h>
+#endif
 #include "qv-document.h"
 #include "qv-error.h"
 #include "qv-solver.h"
@@ -15,6 +20,7 @@ struct _QvDocument
   QvStructure *original;    /* masses as loaded */
   QvHessian *hessian;       /* eV/Å² as read; never handed to qv_solve */
   QvModeSet *modes;
+  QvModeRow *rows;          /* one per mode */
 };
 
 G_DEFINE_FINAL_TYPE (QvDocument, qv_document, G_TYPE_OBJECT)
@@ -104,6 +110,7 @@ qv_document_finalize (GObject *object)
   g_clear_pointer (&self->original, qv_structure_free);
   g_clear_pointer (&self->hessian, qv_hessian_free);
   g_clear_pointer (&self->modes, qv_mode_set_free);
+  g_free (self->rows);
   G_OBJECT_CLASS (qv_document_parent_class)->finalize (object);
 }
 
@@ -145,6 +152,56 @@ qv_document_source_free (QvDocumentSource *s)
   g_free (s);
 }
 
+/* Heavy work yields the CPUs to the main thread (and to the GL driver's
+ * threads that draw the window): on a machine with few cores the solver's
+ * threads would otherwise delay frames. Linux gives each thread its own
+ * nice value, and threads started by the solver (OpenBLAS) inherit it.
+ * Returns the value to restore. */
+static int
+worker_lower_priority (void)
+{
+#ifdef __linux__
+  const id_t tid = (id_t) syscall (SYS_gettid);
+  const int before = getpriority (PRIO_PROCESS, tid);
+  (void) setpriority (PRIO_PROCESS, tid, MAX (before, 10));
+  return before;
+#else
+  return 0;
+#endif
+}
+
+static void
+worker_restore_priority (int before)
+{
+#ifdef __linux__
+  /* Without the privilege to raise it again the pool thread stays at 10:
+   * harmless, it only ever runs background work. */
+  (void) setpriority (PRIO_PROCESS, (id_t) syscall (SYS_gettid), before);
+#else
+  (void) before;
+#endif
+}
+
+/* The list's numbers for every mode: on the worker, O(N) per mode. */
+static QvModeRow *
+compute_rows (const QvModeSet *modes)
+{
+  QvModeRow *rows = g_new0 (QvModeRow, MAX (modes->n_modes, 1));
+
+  for (gsize k = 0; k < modes->n_modes; k++)
+    {
+      QvTurningPoint tp;
+      qv_mode_set_turning_point (modes, k, 0, &tp);
+      rows[k].wavenumber = qv_mode_set_wavenumber (modes, k);
+      rows[k].reduced_mass = qv_mode_set_reduced_mass (modes, k);
+      rows[k].eigenvalue = modes->eigenvalues[k];
+      rows[k].unit_displacement = qv_mode_set_max_displacement (modes, k, 1.0, NULL);
+      rows[k].imaginary = qv_mode_set_is_imaginary (modes, k);
+      rows[k].has_turning_point = tp.defined;
+    }
+  return rows;
+}
+
 static QvModeSet *
 solve_copy (const QvStructure *structure, const QvHessian *hessian,
             const QvProgress *progress, GError **error)
@@ -159,9 +216,10 @@ solve_copy (const QvStructure *structure, const QvHessian *hessian,
   return qv_solve (structure, copy, &options, progress, error);
 }
 
+/* Takes @rows, or computes them when NULL. */
 static QvDocument *
 document_new (const char *name, const char *path, QvStructure *structure,
-              QvHessian *hessian, QvModeSet *modes)
+              QvHessian *hessian, QvModeSet *modes, QvModeRow *rows)
 {
   QvDocument *doc = g_object_new (QV_TYPE_DOCUMENT, NULL);
   doc->name = g_strdup (name);
@@ -170,6 +228,7 @@ document_new (const char *name, const char *path, QvStructure *structure,
   doc->structure = structure;
   doc->hessian = hessian;
   doc->modes = modes;
+  doc->rows = rows ? rows : compute_rows (modes);
   return doc;
 }
 
@@ -185,7 +244,7 @@ qv_document_new_solved (const char *name, QvStructure *structure, QvHessian *hes
       qv_hessian_free (hessian);
       return NULL;
     }
-  return document_new (name, NULL, structure, hessian, modes);
+  return document_new (name, NULL, structure, hessian, modes, NULL);
 }
 
 /* ---- loading ---- */
@@ -204,6 +263,9 @@ load_data_free (gpointer data)
   g_free (d);
 }
 
+static void load_work (LoadData *d, GTask *task, const QvInputOptions *options,
+                       const QvProgress *progress_in);
+
 static void
 load_thread (GTask *task, gpointer source_object, gpointer task_data, GCancellable *cancellable)
 {
@@ -214,14 +276,24 @@ load_thread (GTask *task, gpointer source_object, gpointer task_data, GCancellab
     .hessian_layout = d->source->hessian_layout, .all_modes = TRUE,
   };
   QvProgress progress = { relay_progress, &d->relay };
+  const int priority = worker_lower_priority ();
+
+  relay_post (&d->relay, -1.0, N_("reading"));
+  load_work (d, task, &o, &progress);
+  worker_restore_priority (priority);
+}
+
+static void
+load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProgress *progress_in)
+{
+  QvProgress progress = *progress_in;
   g_autoptr(QvInput) input = NULL;
   GError *error = NULL;
   QvModeSet *modes;
   QvDocument *doc;
   g_autofree char *display = NULL;
 
-  relay_post (&d->relay, -1.0, N_("reading"));
-  input = qv_input_load (&o, &error);
+  input = qv_input_load (options, &error);
   if (input == NULL)
     {
       g_task_return_error (task, error);
@@ -243,9 +315,11 @@ load_thread (GTask *task, gpointer source_object, gpointer task_data, GCancellab
 
   display = d->source->demo ? g_strdup (_("Demo (invented data)"))
                             : g_path_get_basename (d->source->geometry);
+  /* The GObject is made here, on the worker, with the list's rows: the
+   * main thread only shows it. */
   doc = document_new (display, d->source->demo ? NULL : d->source->geometry,
                       g_steal_pointer (&input->structure),
-                      g_steal_pointer (&input->hessian), modes);
+                      g_steal_pointer (&input->hessian), modes, NULL);
   g_task_return_pointer (task, doc, g_object_unref);
 }
 
@@ -293,6 +367,20 @@ solve_data_free (gpointer data)
   g_free (d);
 }
 
+typedef struct {
+  QvModeSet *modes;
+  QvModeRow *rows;
+} Solved;
+
+static void
+solved_free (gpointer data)
+{
+  Solved *solved = data;
+  qv_mode_set_free (solved->modes);
+  g_free (solved->rows);
+  g_free (solved);
+}
+
 static void
 solve_thread (GTask *task, gpointer source_object, gpointer task_data, GCancellable *cancellable)
 {
@@ -300,12 +388,20 @@ solve_thread (GTask *task, gpointer source_object, gpointer task_data, GCancella
   SolveData *d = task_data;
   QvProgress progress = { relay_progress, &d->relay };
   GError *error = NULL;
+  const int priority = worker_lower_priority ();
   QvModeSet *modes = solve_copy (d->structure, doc->hessian, &progress, &error);
+  Solved *solved;
 
+  worker_restore_priority (priority);
   if (modes == NULL)
-    g_task_return_error (task, error);
-  else
-    g_task_return_pointer (task, modes, (GDestroyNotify) qv_mode_set_free);
+    {
+      g_task_return_error (task, error);
+      return;
+    }
+  solved = g_new0 (Solved, 1);
+  solved->modes = modes;
+  solved->rows = compute_rows (modes);
+  g_task_return_pointer (task, solved, solved_free);
 }
 
 void
@@ -340,14 +436,17 @@ qv_document_solve_finish (QvDocument *doc, GAsyncResult *result, GError **error)
 {
   GTask *task = G_TASK (result);
   SolveData *d = g_task_get_task_data (task);
-  QvModeSet *modes = g_task_propagate_pointer (task, error);
+  Solved *solved = g_task_propagate_pointer (task, error);
 
-  if (modes == NULL)
+  if (solved == NULL)
     return FALSE;
   g_clear_pointer (&doc->structure, qv_structure_free);
   doc->structure = g_steal_pointer (&d->structure);
   g_clear_pointer (&doc->modes, qv_mode_set_free);
-  doc->modes = modes;
+  g_free (doc->rows);
+  doc->modes = solved->modes;
+  doc->rows = solved->rows;
+  g_free (solved);
   g_signal_emit (doc, signals[CHANGED], 0);
   return TRUE;
 }
@@ -357,6 +456,7 @@ const char *qv_document_get_path (QvDocument *doc) { return doc->path; }
 const QvStructure *qv_document_get_structure (QvDocument *doc) { return doc->structure; }
 const QvStructure *qv_document_get_original (QvDocument *doc) { return doc->original; }
 const QvModeSet *qv_document_get_modes (QvDocument *doc) { return doc->modes; }
+const QvModeRow *qv_document_get_rows (QvDocument *doc) { return doc->rows; }
 gboolean qv_document_has_hessian (QvDocument *doc) { return doc->hessian != NULL; }
 
 gboolean

@@ -42,7 +42,24 @@ QvDocument *qv_document_load_finish (GAsyncResult *result, GError **error);
 QvDocument *qv_document_new_solved (const char *name, QvStructure *structure,
                                     QvHessian *hessian, GError **error);
 
+/* One row of the mode list, from the core's functions, computed on the
+ * worker with the modes so that showing a large system costs the main
+ * thread nothing per mode. */
+typedef struct {
+  double wavenumber;           /* cm⁻¹, signed (qv_mode_set_wavenumber) */
+  double reduced_mass;         /* u (qv_mode_set_reduced_mass) */
+  double eigenvalue;           /* eV/(Å² u), for qv_oscillator_turning_point */
+  /* qv_mode_set_max_displacement at Q = 1 u^½ Å: the largest atomic
+   * displacement is this times |Q| (that function's definition). */
+  double unit_displacement;    /* Å per u^½ Å */
+  gboolean imaginary;          /* qv_mode_set_is_imaginary */
+  gboolean has_turning_point;  /* QvTurningPoint.defined */
+} QvModeRow;
+
 const char *qv_document_get_name (QvDocument *doc);
+/* One row per mode (qv_document_get_modes ()->n_modes), replaced with the
+ * modes on ::changed. */
+const QvModeRow *qv_document_get_rows (QvDocument *doc);
 /* The file the document came from, NULL for the demo. */
 const char *qv_document_get_path (QvDocument *doc);
 const QvStructure *qv_document_get_structure (QvDocument *doc);

@@ -2,16 +2,14 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <math.h>
 #include "qv-mode-item.h"
+#include "qv-oscillator.h"
 
 struct _QvModeItem
 {
   GObject parent_instance;
-  const QvModeSet *modes;
+  QvModeRow row;
   guint index;
   guint level;
-  double wavenumber;
-  double reduced_mass;
-  gboolean imaginary;
   double turning_q;
   double max_displacement;
 };
@@ -38,12 +36,12 @@ qv_mode_item_get_property (GObject *object, guint prop_id, GValue *value, GParam
   switch (prop_id)
     {
     case PROP_INDEX: g_value_set_uint (value, self->index); break;
-    case PROP_WAVENUMBER: g_value_set_double (value, self->wavenumber); break;
-    case PROP_REDUCED_MASS: g_value_set_double (value, self->reduced_mass); break;
+    case PROP_WAVENUMBER: g_value_set_double (value, self->row.wavenumber); break;
+    case PROP_REDUCED_MASS: g_value_set_double (value, self->row.reduced_mass); break;
     /* Sorters see modes without a turning point last (−1 < every value). */
     case PROP_TURNING_Q: g_value_set_double (value, isnan (self->turning_q) ? -1.0 : self->turning_q); break;
     case PROP_MAX_DISPLACEMENT: g_value_set_double (value, isnan (self->max_displacement) ? -1.0 : self->max_displacement); break;
-    case PROP_IMAGINARY: g_value_set_boolean (value, self->imaginary); break;
+    case PROP_IMAGINARY: g_value_set_boolean (value, self->row.imaginary); break;
     default: G_OBJECT_WARN_INVALID_PROPERTY_ID (object, prop_id, pspec);
     }
 }
@@ -72,24 +70,25 @@ qv_mode_item_init (QvModeItem *self)
 static void
 compute_level (QvModeItem *self)
 {
-  QvTurningPoint tp;
-
-  qv_mode_set_turning_point (self->modes, self->index, self->level, &tp);
-  self->turning_q = tp.defined ? tp.q : NAN;
-  self->max_displacement = tp.defined ? tp.max_displacement : NAN;
+  if (!self->row.has_turning_point)
+    {
+      self->turning_q = self->max_displacement = NAN;
+      return;
+    }
+  /* What qv_mode_set_turning_point gives, without its O(N) pass: Q from
+   * the oscillator, the largest displacement linear in |Q|. */
+  self->turning_q = qv_oscillator_turning_point (self->row.eigenvalue, self->level);
+  self->max_displacement = fabs (self->turning_q) * self->row.unit_displacement;
 }
 
 QvModeItem *
-qv_mode_item_new (const QvModeSet *modes, guint index, guint level)
+qv_mode_item_new (const QvModeRow *row, guint index, guint level)
 {
   QvModeItem *self = g_object_new (QV_TYPE_MODE_ITEM, NULL);
 
-  self->modes = modes;
+  self->row = *row;
   self->index = index;
   self->level = level;
-  self->wavenumber = qv_mode_set_wavenumber (modes, index);
-  self->reduced_mass = qv_mode_set_reduced_mass (modes, index);
-  self->imaginary = qv_mode_set_is_imaginary (modes, index);
   compute_level (self);
   return self;
 }
@@ -106,17 +105,17 @@ qv_mode_item_set_level (QvModeItem *self, guint v)
 }
 
 guint qv_mode_item_get_index (QvModeItem *self) { return self->index; }
-double qv_mode_item_get_wavenumber (QvModeItem *self) { return self->wavenumber; }
-double qv_mode_item_get_reduced_mass (QvModeItem *self) { return self->reduced_mass; }
+double qv_mode_item_get_wavenumber (QvModeItem *self) { return self->row.wavenumber; }
+double qv_mode_item_get_reduced_mass (QvModeItem *self) { return self->row.reduced_mass; }
 double qv_mode_item_get_turning_q (QvModeItem *self) { return self->turning_q; }
 double qv_mode_item_get_max_displacement (QvModeItem *self) { return self->max_displacement; }
-gboolean qv_mode_item_get_imaginary (QvModeItem *self) { return self->imaginary; }
+gboolean qv_mode_item_get_imaginary (QvModeItem *self) { return self->row.imaginary; }
 
 char *
 qv_mode_item_format_wavenumber (QvModeItem *self, QvFrequencyUnit unit)
 {
-  const double value = fabs (qv_frequency_from_wavenumber (self->wavenumber, unit));
+  const double value = fabs (qv_frequency_from_wavenumber (self->row.wavenumber, unit));
   const int digits = unit == QV_FREQUENCY_CM1 ? 1 : unit == QV_FREQUENCY_THZ ? 3 : 2;
 
-  return g_strdup_printf ("%.*f%s", digits, value, self->imaginary ? "i" : "");
+  return g_strdup_printf ("%.*f%s", digits, value, self->row.imaginary ? "i" : "");
 }

@@ -4,6 +4,7 @@
 #include "qv-config.h"
 #include <math.h>
 #include "qv-mode-item.h"
+#include "qv-mode-list.h"
 #include "qv-mode-panel.h"
 #include "qv-preferences.h"
 
@@ -24,8 +25,10 @@ struct _QvModePanel
   GtkColumnViewColumn *columns[N_COLUMNS];
 
   QvDocument *document;
-  GListStore *store;
+  QvModeList *store;
   GtkSortListModel *sorted;
+  GtkSliceListModel *slice;     /* the rows shown: all but just after a new document */
+  guint grow_id;
   GtkSingleSelection *selection;
   guint level;
   QvFrequencyUnit unit;
@@ -284,6 +287,11 @@ select_position (QvModePanel *self, guint position)
 {
   GtkWidget *list = list_view_of (self->column_view);
 
+  if (position >= g_list_model_get_n_items (G_LIST_MODEL (self->slice)))
+    {
+      g_clear_handle_id (&self->grow_id, g_source_remove);
+      gtk_slice_list_model_set_size (self->slice, G_MAXUINT);
+    }
   gtk_single_selection_set_selected (self->selection, position);
   /* gtk_column_view_scroll_to is 4.12: the list's own action scrolls and
    * moves the focus onto the row. */
@@ -295,10 +303,17 @@ void
 qv_mode_panel_select (QvModePanel *self, int index)
 {
   const guint n = g_list_model_get_n_items (G_LIST_MODEL (self->sorted));
+  GtkSorter *sorter = gtk_column_view_get_sorter (self->column_view);
 
   if (n == 0)
     return;
   index = CLAMP (index, 0, (int) n - 1);
+  /* Unsorted, row and mode agree: no item needs to be made. */
+  if (sorter == NULL || gtk_sorter_get_order (sorter) == GTK_SORTER_ORDER_NONE)
+    {
+      select_position (self, (guint) index);
+      return;
+    }
   for (guint p = 0; p < n; p++)
     {
       g_autoptr(QvModeItem) item = g_list_model_get_item (G_LIST_MODEL (self->sorted), p);
@@ -331,20 +346,30 @@ qv_mode_panel_get_selected (QvModePanel *self)
 
 /* ---- document and level ---- */
 
+#define FIRST_ROWS 40
+
+static gboolean
+grow_slice (gpointer data)
+{
+  QvModePanel *self = data;
+
+  self->grow_id = 0;
+  gtk_slice_list_model_set_size (self->slice, G_MAXUINT);
+  return G_SOURCE_REMOVE;
+}
+
 void
 qv_mode_panel_set_document (QvModePanel *self, QvDocument *doc)
 {
-  g_autoptr(GPtrArray) items = g_ptr_array_new_with_free_func (g_object_unref);
-
   g_set_object (&self->document, doc);
-  if (doc)
-    {
-      const QvModeSet *m = qv_document_get_modes (doc);
-      for (gsize k = 0; k < m->n_modes; k++)
-        g_ptr_array_add (items, qv_mode_item_new (m, (guint) k, self->level));
-    }
-  g_list_store_splice (self->store, 0, g_list_model_get_n_items (G_LIST_MODEL (self->store)),
-                       items->pdata, items->len);
+  /* Rows come from the worker (qv_document_get_rows); items are made as
+   * the list shows them. */
+  /* A list view that has not been laid out yet makes up to 200 rows of
+   * widgets: show the first rows, and the rest once rows have a height. */
+  gtk_slice_list_model_set_size (self->slice, FIRST_ROWS);
+  qv_mode_list_set_document (self->store, doc, self->level);
+  if (self->grow_id == 0)
+    self->grow_id = g_timeout_add_full (G_PRIORITY_LOW, 100, grow_slice, self, NULL);
   update_summary (self);
   selection_changed (self);
 }
@@ -358,17 +383,11 @@ qv_mode_panel_get_level (QvModePanel *self)
 void
 qv_mode_panel_set_level (QvModePanel *self, guint level)
 {
-  const guint n = g_list_model_get_n_items (G_LIST_MODEL (self->store));
-
   level = MIN (level, 50);
   if (level == self->level)
     return;
   self->level = level;
-  for (guint i = 0; i < n; i++)
-    {
-      g_autoptr(QvModeItem) item = g_list_model_get_item (G_LIST_MODEL (self->store), i);
-      qv_mode_item_set_level (item, level);
-    }
+  qv_mode_list_set_level (self->store, level);
   gtk_adjustment_set_value (self->level_adjustment, level);
   update_titles (self);
   refresh_cells (self);
@@ -384,18 +403,12 @@ level_spin_changed (QvModePanel *self)
 static void
 set_unit (QvModePanel *self, QvFrequencyUnit unit)
 {
-  const guint n = g_list_model_get_n_items (G_LIST_MODEL (self->sorted));
-
   if (unit == self->unit)
     return;
   self->unit = unit;
   update_titles (self);
-  /* Rows show new text: rebind every visible cell. */
-  for (guint i = 0; i < n; i++)
-    {
-      g_autoptr(QvModeItem) item = g_list_model_get_item (G_LIST_MODEL (self->store), i);
-      g_object_notify (G_OBJECT (item), "wavenumber");
-    }
+  /* Rows show new text: rebind the cells of the items made so far. */
+  qv_mode_list_notify_all (self->store, "wavenumber");
   g_object_notify_by_pspec (G_OBJECT (self), props[PROP_UNIT]);
 }
 
@@ -464,8 +477,11 @@ qv_mode_panel_dispose (GObject *object)
   QvModePanel *self = QV_MODE_PANEL (object);
 
   g_clear_object (&self->document);
+  g_clear_handle_id (&self->grow_id, g_source_remove);
   gtk_widget_dispose_template (GTK_WIDGET (self), QV_TYPE_MODE_PANEL);
   g_clear_object (&self->selection);
+  g_clear_object (&self->slice);
+  g_clear_object (&self->sorted);
   g_clear_object (&self->store);
   G_OBJECT_CLASS (qv_mode_panel_parent_class)->dispose (object);
 }
@@ -516,10 +532,11 @@ qv_mode_panel_init (QvModePanel *self)
   add_column (self, COL_DISPLACEMENT, _("Largest"), NULL);
   update_titles (self);
 
-  self->store = g_list_store_new (QV_TYPE_MODE_ITEM);
+  self->store = qv_mode_list_new ();
   self->sorted = gtk_sort_list_model_new (G_LIST_MODEL (g_object_ref (self->store)),
                                           g_object_ref (gtk_column_view_get_sorter (self->column_view)));
-  self->selection = gtk_single_selection_new (G_LIST_MODEL (self->sorted));
+  self->slice = gtk_slice_list_model_new (G_LIST_MODEL (g_object_ref (self->sorted)), 0, G_MAXUINT);
+  self->selection = gtk_single_selection_new (G_LIST_MODEL (g_object_ref (self->slice)));
   gtk_single_selection_set_autoselect (self->selection, TRUE);
   gtk_column_view_set_model (self->column_view, GTK_SELECTION_MODEL (self->selection));
   g_signal_connect_object (self->selection, "notify::selected-item", G_CALLBACK (selection_changed), self,

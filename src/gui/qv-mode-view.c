@@ -16,6 +16,16 @@
 
 /* A press that moves less than this (px) before release is a click. */
 #define CLICK_SLOP 4.0
+/* The longest arrow of a mode, in Å, whatever the amplitude: it reaches
+ * about 1.2–1.4 Å beyond its atom's sphere (arrows start at 0.85 of the
+ * radius, qv-renderer). Atoms that move less than ARROW_MIN_SHARE of the
+ * largest displacement get no arrow. Presentation only: the displacements
+ * are the core's. */
+#define ARROW_LONGEST 1.4
+#define ARROW_MIN_SHARE 0.05
+/* The still view is drawn in the renderer's quality mode this long after
+ * the last zoom or roll step. */
+#define SETTLE_MS 250
 
 struct _QvModeView
 {
@@ -44,6 +54,8 @@ struct _QvModeView
   double zoom_scale;
   double pointer_x, pointer_y;
   double roll_angle;
+  gboolean dragging;
+  guint settle_id;            /* a zoom or roll just happened */
 
 #ifdef QV_GUI_HAVE_RENDERER
   QvRenderer *renderer;
@@ -69,6 +81,40 @@ enum { ATOM_ACTIVATED, N_SIGNALS };
 static guint signals[N_SIGNALS];
 
 /* ---- drawing ---- */
+
+static gboolean
+is_moving (QvModeView *self)
+{
+  return self->tick_id != 0 || self->dragging || self->settle_id != 0;
+}
+
+static void
+motion_changed (QvModeView *self)
+{
+  self->options_dirty = TRUE;
+  gtk_gl_area_queue_render (self->area);
+}
+
+static gboolean
+settled (gpointer data)
+{
+  QvModeView *self = data;
+  self->settle_id = 0;
+  motion_changed (self);
+  return G_SOURCE_REMOVE;
+}
+
+/* A zoom or roll step: the fast look until the view stays still. */
+static void
+unsettle (QvModeView *self)
+{
+  const gboolean was_moving = is_moving (self);
+
+  g_clear_handle_id (&self->settle_id, g_source_remove);
+  self->settle_id = g_timeout_add (SETTLE_MS, settled, self);
+  if (!was_moving)
+    motion_changed (self);
+}
 
 #ifdef QV_GUI_HAVE_RENDERER
 static void
@@ -97,6 +143,24 @@ fit_camera (QvModeView *self)
   self->fit_pending = FALSE;
 }
 
+/* The largest atomic displacement shown, Å: |amplitude| × the longest of
+ * the mode's per-atom vectors. */
+static double
+largest_displacement (QvModeView *self)
+{
+  const gsize n = self->structure ? self->structure->n_atoms : 0;
+  double best = 0.0;
+
+  if (self->displacement == NULL)
+    return 0.0;
+  for (gsize a = 0; a < n; a++)
+    {
+      const float *d = self->displacement + 3 * a;
+      best = MAX (best, (double) d[0] * d[0] + (double) d[1] * d[1] + (double) d[2] * d[2]);
+    }
+  return fabs (self->amplitude) * sqrt (best);
+}
+
 static void
 upload (QvModeView *self)
 {
@@ -115,11 +179,23 @@ upload (QvModeView *self)
       if (self->participation)
         qv_renderer_set_participation (self->renderer, self->participation);
       self->mode_dirty = FALSE;
+      /* The arrows' scale follows the mode and the amplitude. */
+      self->options_dirty = TRUE;
     }
   if (self->options_dirty)
     {
       QvRenderOptions options = *qv_renderer_get_options (self->renderer);
+      const double largest = largest_displacement (self);
       options.arrows = self->show_arrows;
+      if (largest > 0.0)
+        {
+          options.arrow_scale = (float) (ARROW_LONGEST / largest);
+          options.arrow_threshold = (float) (ARROW_MIN_SHARE * largest);
+        }
+      /* Moving: the renderer's interactive look (one sample, analytic
+       * edges); still: its multisampled quality, drawn once. */
+      options.antialias = QV_ANTIALIAS_EDGES;
+      options.samples = is_moving (self) ? 0 : 4;
       options.colouring = self->participation_colouring && self->participation
                           ? QV_COLOUR_PARTICIPATION : QV_COLOUR_ELEMENT;
       options.background = self->dark ? QV_BACKGROUND_DARK : QV_BACKGROUND_LIGHT;
@@ -129,6 +205,56 @@ upload (QvModeView *self)
       qv_renderer_set_highlight (self->renderer, self->highlight);
       self->options_dirty = FALSE;
     }
+}
+#endif
+
+#ifdef QV_GUI_HAVE_RENDERER
+/* One small frame into a framebuffer of our own right after the context
+ * exists: the GL driver compiles what its first draw needs (Mesa's
+ * llvmpipe builds its shader variants then) while the window still shows
+ * the welcome page, not when the first document is handed over. The
+ * structure is invented: two atoms, a bond, one moving. */
+static void
+warm_up (QvModeView *self)
+{
+  g_autoptr(QvStructure) s = qv_structure_new (2, NULL);
+  static const float mode[6] = { 0.0f, 0.0f, 0.0f, 0.3f, 0.0f, 0.0f };
+  static const float part[2] = { 0.2f, 1.0f };
+  QvCamera camera;
+  GLuint fbo, colour, depth;
+  GLint previous = 0;
+  const int size = 64;
+
+  qv_structure_set_element (s, 0, 6, NULL);
+  qv_structure_set_element (s, 1, 1, NULL);
+  s->atoms[1].position[0] = 1.09;
+  glGetIntegerv (GL_FRAMEBUFFER_BINDING, &previous);
+  glGenFramebuffers (1, &fbo);
+  glGenRenderbuffers (1, &colour);
+  glGenRenderbuffers (1, &depth);
+  glBindRenderbuffer (GL_RENDERBUFFER, colour);
+  glRenderbufferStorage (GL_RENDERBUFFER, GL_RGBA8, size, size);
+  glBindRenderbuffer (GL_RENDERBUFFER, depth);
+  glRenderbufferStorage (GL_RENDERBUFFER, GL_DEPTH24_STENCIL8, size, size);
+  glBindFramebuffer (GL_FRAMEBUFFER, fbo);
+  glFramebufferRenderbuffer (GL_FRAMEBUFFER, GL_COLOR_ATTACHMENT0, GL_RENDERBUFFER, colour);
+  glFramebufferRenderbuffer (GL_FRAMEBUFFER, GL_DEPTH_STENCIL_ATTACHMENT, GL_RENDERBUFFER, depth);
+  if (glCheckFramebufferStatus (GL_FRAMEBUFFER) == GL_FRAMEBUFFER_COMPLETE)
+    {
+      float points[6] = { 0.0f, 0.0f, 0.0f, 1.09f, 0.0f, 0.0f };
+      qv_camera_init (&camera);
+      qv_camera_set_viewport (&camera, size, size);
+      qv_camera_fit (&camera, points, 2, 1.5f);
+      qv_renderer_set_structure (self->renderer, s);
+      qv_renderer_set_mode (self->renderer, mode, NULL, 1.0f);
+      qv_renderer_set_participation (self->renderer, part);
+      qv_renderer_draw (self->renderer, &camera);
+      glFinish ();
+    }
+  glBindFramebuffer (GL_FRAMEBUFFER, (GLuint) previous);
+  glDeleteFramebuffers (1, &fbo);
+  glDeleteRenderbuffers (1, &colour);
+  glDeleteRenderbuffers (1, &depth);
 }
 #endif
 
@@ -152,6 +278,7 @@ area_realize (GtkGLArea *area, QvModeView *self)
         return;
       }
     self->structure_dirty = self->mode_dirty = self->options_dirty = TRUE;
+    warm_up (self);
   }
 #endif
 }
@@ -221,11 +348,13 @@ update_ticking (QvModeView *self)
     {
       self->last_frame_time = 0;
       self->tick_id = gtk_widget_add_tick_callback (GTK_WIDGET (self), tick, self, NULL);
+      motion_changed (self);
     }
   else if (!want && self->tick_id != 0)
     {
       gtk_widget_remove_tick_callback (GTK_WIDGET (self), self->tick_id);
       self->tick_id = 0;
+      motion_changed (self);
     }
 }
 
@@ -332,6 +461,16 @@ qv_mode_view_set_highlight (QvModeView *self, gssize atom)
   redraw (self);
 }
 
+void
+qv_mode_view_prepare (QvModeView *self)
+{
+  GtkRoot *root = gtk_widget_get_root (GTK_WIDGET (self));
+
+  /* Realizing the area realizes its parents, shown or not. */
+  if (root && gtk_widget_get_realized (GTK_WIDGET (root)) && !gtk_widget_get_realized (GTK_WIDGET (self->area)))
+    gtk_widget_realize (GTK_WIDGET (self->area));
+}
+
 guint
 qv_mode_view_get_frames (QvModeView *self)
 {
@@ -420,6 +559,8 @@ drag_begin (GtkGestureDrag *gesture, double x, double y, QvModeView *self)
   const guint button = gtk_gesture_single_get_current_button (GTK_GESTURE_SINGLE (gesture));
 
   gtk_widget_grab_focus (GTK_WIDGET (self));
+  self->dragging = TRUE;
+  motion_changed (self);
   self->drag_x = x;
   self->drag_y = y;
   self->last_dx = self->last_dy = 0.0;
@@ -456,6 +597,8 @@ drag_end (GtkGestureDrag *gesture, double dx, double dy, QvModeView *self)
   if (!self->drag_pan)
     qv_camera_rotate_end (&self->camera);
 #endif
+  self->dragging = FALSE;
+  motion_changed (self);
   if (hypot (dx, dy) < CLICK_SLOP
       && gtk_gesture_single_get_current_button (GTK_GESTURE_SINGLE (gesture)) == GDK_BUTTON_PRIMARY)
     {
@@ -483,6 +626,7 @@ scrolled (GtkEventControllerScroll *controller, double dx, double dy, QvModeView
 
   qv_camera_zoom_at (&self->camera, (float) (x * scale), (float) (y * scale), (float) pow (1.15, -dy));
 #endif
+  unsettle (self);
   redraw (self);
   return TRUE;
 }
@@ -500,6 +644,7 @@ zoom_changed (GtkGestureZoom *gesture, double scale_delta, QvModeView *self)
                        (float) (scale_delta / self->zoom_scale));
 #endif
   self->zoom_scale = scale_delta;
+  unsettle (self);
   redraw (self);
 }
 
@@ -516,6 +661,7 @@ rotate_changed (GtkGestureRotate *gesture, double angle, double delta, QvModeVie
   qv_camera_roll (&self->camera, (float) (delta - self->roll_angle));
 #endif
   self->roll_angle = delta;
+  unsettle (self);
   redraw (self);
 }
 
@@ -539,6 +685,7 @@ qv_mode_view_unmap (GtkWidget *widget)
 {
   QvModeView *self = QV_MODE_VIEW (widget);
   GTK_WIDGET_CLASS (qv_mode_view_parent_class)->unmap (widget);
+  g_clear_handle_id (&self->settle_id, g_source_remove);
   if (self->tick_id)
     {
       gtk_widget_remove_tick_callback (widget, self->tick_id);
@@ -599,6 +746,7 @@ qv_mode_view_dispose (GObject *object)
 {
   QvModeView *self = QV_MODE_VIEW (object);
 
+  g_clear_handle_id (&self->settle_id, g_source_remove);
   gtk_widget_dispose_template (GTK_WIDGET (self), QV_TYPE_MODE_VIEW);
   self->area = NULL;
   G_OBJECT_CLASS (qv_mode_view_parent_class)->dispose (object);

@@ -48,6 +48,11 @@ gssize qv_mode_view_pick (QvModeView *self, double x, double y);
 /* Where atom @atom is drawn, in widget coordinates; FALSE when unknown. */
 gboolean qv_mode_view_project_atom (QvModeView *self, gsize atom, double *x, double *y);
 
+/* Creates the GL context and the renderer now, before the view is shown,
+ * and draws one small invented frame off screen so the driver's first-draw
+ * work is done early (the window calls it while the welcome page shows). */
+void qv_mode_view_prepare (QvModeView *self);
+
 /* Frames drawn so far, and TRUE when the renderer draws (FALSE: the view
  * only clears, because the build has no renderer or GL failed). */
 guint qv_mode_view_get_frames (QvModeView *self);

@@ -645,6 +645,23 @@ qv_window_close_request (GtkWindow *window)
   return GTK_WINDOW_CLASS (qv_window_parent_class)->close_request (window);
 }
 
+static gboolean
+prepare_view (gpointer data)
+{
+  QvWindow *self = data;
+  qv_mode_view_prepare (self->mode_view);
+  return G_SOURCE_REMOVE;
+}
+
+static void
+qv_window_map (GtkWidget *widget)
+{
+  GTK_WIDGET_CLASS (qv_window_parent_class)->map (widget);
+  /* After the first frame of the window: its GL context and the view's
+   * renderer are made while the welcome page shows. */
+  g_idle_add_full (G_PRIORITY_LOW, prepare_view, g_object_ref (widget), g_object_unref);
+}
+
 static void
 qv_window_dispose (GObject *object)
 {
@@ -671,6 +688,7 @@ qv_window_class_init (QvWindowClass *klass)
 
   object_class->dispose = qv_window_dispose;
   GTK_WINDOW_CLASS (klass)->close_request = qv_window_close_request;
+  widget_class->map = qv_window_map;
 
   g_type_ensure (QV_TYPE_WELCOME_PAGE);
   g_type_ensure (QV_TYPE_MODE_VIEW);
