@@ -17,7 +17,8 @@ GLuint qv_shader_program_from_source (const char *vert_name, const char *vert_so
  * resource, with shaders/common.glsl put after their #version line. */
 GLuint qv_shader_program_load (const char *name, GError **error);
 /* The same with @defines (whole lines, e.g. "#define QV_FRINGE 1\n") put
- * right after the #version and #extension lines of both shaders. */
+ * right after the #version and #extension lines of both shaders (the
+ * fragment shader also gets QV_FRAGMENT defined). */
 GLuint qv_shader_program_load_defines (const char *name, const char *defines, GError **error);
 
 G_END_DECLS

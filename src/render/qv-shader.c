@@ -207,6 +207,8 @@ qv_shader_program_load_defines (const char *name, const char *defines, GError **
   g_autofree char *common = load_text ("common.glsl", error);
   g_autofree char *vfile = g_strconcat (name, ".vert", NULL);
   g_autofree char *ffile = g_strconcat (name, ".frag", NULL);
+  /* Lets common.glsl hold fragment-only functions. */
+  g_autofree char *fdefines = g_strconcat (defines ? defines : "", "#define QV_FRAGMENT 1\n", NULL);
   char *vparts[3] = { NULL }, *fparts[3] = { NULL };
   const char *vnames[3], *fnames[3];
   GLuint program = 0;
@@ -217,7 +219,7 @@ qv_shader_program_load_defines (const char *name, const char *defines, GError **
   fnames[0] = fnames[2] = ffile;
   vnames[1] = fnames[1] = "common.glsl";
   if (split_sources (vfile, common, defines, vparts, error)
-      && split_sources (ffile, common, defines, fparts, error))
+      && split_sources (ffile, common, fdefines, fparts, error))
     program = program_from_strings ((const char *const *) vparts, vnames,
                                     (const char *const *) fparts, fnames, 3, error);
   for (int k = 0; k < 3; k++)

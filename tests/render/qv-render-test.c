@@ -60,7 +60,8 @@ qvr_save (const QvrContext *c, const char *name)
 {
   const char *root = g_getenv ("QV_BUILD_ROOT");
   g_autofree char *dir = g_build_filename (root ? root : ".", "tests", "render", NULL);
-  g_autofree char *path = g_build_filename (dir, name, NULL);
+  g_autofree char *file = g_strconcat (c->save_prefix ? c->save_prefix : "", name, NULL);
+  g_autofree char *path = g_build_filename (dir, file, NULL);
   FILE *f;
 
   g_mkdir_with_parents (dir, 0755);

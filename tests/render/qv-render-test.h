@@ -17,6 +17,7 @@ typedef struct {
   int width, height;          /* read-back size */
   int draw_width, draw_height;
   guint8 *rgba;
+  const char *save_prefix;    /* put before qvr_save's names, or NULL */
 } QvrContext;
 
 /* Creates the context and renderer or exits 77 with a message when EGL's

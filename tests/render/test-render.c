@@ -6,6 +6,7 @@
 #include <setjmp.h>
 #include <cmocka.h>
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
 #include "qv-input.h"
 #include "qv-renderer-private.h"
@@ -434,8 +435,10 @@ test_shader_error (void **state)
   glDeleteProgram (p);
 }
 
+/* With an argument: that many MSAA samples in the offscreen framebuffer
+ * (0: one sample, the default analytic antialiasing the window uses). */
 int
-main (void)
+main (int argc, char **argv)
 {
   const struct CMUnitTest tests[] = {
     cmocka_unit_test (test_demo_colours),
@@ -449,8 +452,11 @@ main (void)
   };
   int rc;
 
-  ctx = qvr_context_new (W, H, 4, 1);
-  g_print ("GL renderer: %s\n", qv_offscreen_renderer_name (ctx->offscreen));
+  ctx = qvr_context_new (W, H, argc > 1 ? atoi (argv[1]) : 4, 1);
+  if (argc > 1)
+    ctx->save_prefix = "1x-";
+  g_print ("GL renderer: %s, %d samples\n", qv_offscreen_renderer_name (ctx->offscreen),
+           argc > 1 ? atoi (argv[1]) : 4);
   rc = cmocka_run_group_tests (tests, NULL, NULL);
   qvr_context_free (ctx);
   return rc;

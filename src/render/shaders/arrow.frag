@@ -5,7 +5,6 @@
 // where it passes closest to the axis (see u_aa).
 // SPDX-License-Identifier: GPL-3.0-or-later
 
-in vec3 v_pos;
 flat in vec3 v_base;
 flat in vec4 v_axis;
 flat in vec4 v_shape;
@@ -17,8 +16,8 @@ out vec4 frag_colour;
 
 void main ()
 {
-  vec3 o = u_ortho > 0.5 ? vec3 (v_pos.xy, 0.0) : vec3 (0.0);
-  vec3 d = u_ortho > 0.5 ? vec3 (0.0, 0.0, -1.0) : normalize (v_pos);
+  vec3 o, d;
+  qv_view_ray (o, d);
   vec3 ax = v_axis.xyz;
   float len = v_axis.w, sl = v_shape.x, rs = v_shape.y, rh = v_shape.z;
   float k = rh / max (v_shape.w, 1e-6);          // cone: radius = k (len − s)

@@ -9,7 +9,6 @@
 // The atom of each arrow.
 uniform usamplerBuffer u_arrows;
 
-out vec3 v_pos;
 flat out vec3 v_base;        // view space: the shaft's start
 flat out vec4 v_axis;        // unit direction, length
 flat out vec4 v_shape;       // shaft length, shaft radius, head radius, head length
@@ -68,7 +67,7 @@ void main ()
   n = vec2 (-u.y, u.x);
   corner = qv_quad_corner4 (gl_VertexID);
   p = (corner.y < 0.0 ? pa - u * w : pb + u * w) + n * (corner.x * w);
-  v_pos = vec3 (p, zq);
+  vec3 v_pos = vec3 (p, zq);
   v_base = a;
   v_axis = vec4 (ax, len);
   v_shape = vec4 (len - head_len, shaft_r, head_r, head_len);

@@ -40,6 +40,27 @@ const int QV_AA_INNER = 2;
 const int QV_AA_FRINGE = 3;
 uniform int u_aa;
 
+#ifdef QV_FRAGMENT
+// The view-space ray through this fragment's pixel centre, from
+// gl_FragCoord (the projections are symmetric, qv-camera.c): no
+// perspective-corrected varying to interpolate for it.
+void qv_view_ray (out vec3 o, out vec3 d)
+{
+  vec2 ndc = gl_FragCoord.xy * 2.0 * u_viewport.zw - 1.0;
+  vec2 xy = ndc / vec2 (u_proj[0][0], u_proj[1][1]);
+  if (u_ortho > 0.5)
+    {
+      o = vec3 (xy, 0.0);
+      d = vec3 (0.0, 0.0, -1.0);
+    }
+  else
+    {
+      o = vec3 (0.0);
+      d = normalize (vec3 (xy, -1.0));
+    }
+}
+#endif
+
 // How far (in pixels) an impostor's quad must reach past its silhouette
 // for this pass: llvmpipe pays for every pixel of every quad.
 float qv_aa_margin ()

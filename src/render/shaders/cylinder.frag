@@ -4,7 +4,6 @@
 // from the ray's distance to the axis, in pixels (see u_aa).
 // SPDX-License-Identifier: GPL-3.0-or-later
 
-in vec3 v_pos;
 flat in vec3 v_a;
 flat in vec4 v_axis;
 flat in vec2 v_span;
@@ -17,8 +16,8 @@ out vec4 frag_colour;
 
 void main ()
 {
-  vec3 o = u_ortho > 0.5 ? vec3 (v_pos.xy, 0.0) : vec3 (0.0);
-  vec3 d = u_ortho > 0.5 ? vec3 (0.0, 0.0, -1.0) : normalize (v_pos);
+  vec3 o, d;
+  qv_view_ray (o, d);
   float r = u_bond_radius;
   vec3 ax = v_axis.xyz;
   float len = v_axis.w;

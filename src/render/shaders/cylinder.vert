@@ -10,7 +10,6 @@
 // The two atoms of each bond.
 uniform usamplerBuffer u_bonds;
 
-out vec3 v_pos;
 flat out vec3 v_a;
 flat out vec4 v_axis;        // unit direction a → b, length
 flat out vec2 v_span;        // the drawn part along the axis, from a
@@ -71,7 +70,7 @@ void main ()
   n = vec2 (-u.y, u.x);
   corner = qv_quad_corner4 (gl_VertexID);
   p = (corner.y < 0.0 ? pa - u * w : pb + u * w) + n * (corner.x * w);
-  v_pos = vec3 (p, zq);
+  vec3 v_pos = vec3 (p, zq);
   v_a = a0;
   v_axis = vec4 (ax, len);
   v_span = vec2 (s0, s1);

@@ -3,7 +3,6 @@
 // coverage from the ray's distance to the centre, in pixels (see u_aa).
 // SPDX-License-Identifier: GPL-3.0-or-later
 
-in vec3 v_pos;
 flat in vec4 v_sphere;
 flat in float v_inv_px;
 flat in float v_rim;
@@ -14,8 +13,8 @@ out vec4 frag_colour;
 
 void main ()
 {
-  vec3 o = u_ortho > 0.5 ? vec3 (v_pos.xy, 0.0) : vec3 (0.0);
-  vec3 d = u_ortho > 0.5 ? vec3 (0.0, 0.0, -1.0) : normalize (v_pos);
+  vec3 o, d;
+  qv_view_ray (o, d);
   vec3 oc = o - v_sphere.xyz;
   float r = v_sphere.w;
   float b = dot (oc, d);

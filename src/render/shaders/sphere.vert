@@ -9,7 +9,6 @@
 // no gl_FragDepth) is depth-tested with it before shading.
 // SPDX-License-Identifier: GPL-3.0-or-later
 
-out vec3 v_pos;
 flat out vec4 v_sphere;     // view-space centre, radius
 flat out float v_inv_px;    // pixels per view unit at the sphere
 flat out float v_rim;       // 1 for the highlighted atom
@@ -39,7 +38,6 @@ void main ()
       float s = d2 > r * r * 1.0001 ? r * sqrt (d2 / (d2 - r * r)) : 0.0;
       pos = c + (corner.x * e1 + corner.y * e2) * (s + margin);
     }
-  v_pos = pos;
   v_sphere = vec4 (c, r);
   v_inv_px = 1.0 / px;
   v_rim = i == u_highlight ? 1.0 : 0.0;
