@@ -85,7 +85,8 @@ static guint signals[N_SIGNALS];
 static gboolean
 is_moving (QvModeView *self)
 {
-  return self->tick_id != 0 || self->dragging || self->settle_id != 0;
+  /* Playing counts from the start, before the first tick. */
+  return (self->playing && self->displacement != NULL) || self->dragging || self->settle_id != 0;
 }
 
 static void
@@ -394,6 +395,7 @@ qv_mode_view_set_playing (QvModeView *self, gboolean playing)
     return;
   self->playing = !!playing;
   update_ticking (self);
+  motion_changed (self);
   g_object_notify_by_pspec (G_OBJECT (self), props[PROP_PLAYING]);
 }
 

@@ -61,6 +61,50 @@ cell_number (QvModePanel *panel, guint row, guint column)
   return v;
 }
 
+/* Warnings and criticals logged while a test listens (any domain: GTK's
+ * size and layout checks log as Gtk-CRITICAL). */
+static gboolean log_listening;
+static GPtrArray *log_caught;
+
+static GLogWriterOutput
+log_writer (GLogLevelFlags level, const GLogField *fields, gsize n_fields, gpointer data)
+{
+  if (log_listening && (level & (G_LOG_LEVEL_CRITICAL | G_LOG_LEVEL_WARNING | G_LOG_LEVEL_ERROR)))
+    {
+      const char *domain = "", *message = "";
+      for (gsize i = 0; i < n_fields; i++)
+        if (g_str_equal (fields[i].key, "GLIB_DOMAIN") && fields[i].length < 0)
+          domain = fields[i].value;
+        else if (g_str_equal (fields[i].key, "MESSAGE") && fields[i].length < 0)
+          message = fields[i].value;
+      g_ptr_array_add (log_caught, g_strdup_printf ("%s: %s", domain, message));
+    }
+  return g_log_writer_default (level, fields, n_fields, data);
+}
+
+/* Start-up on the demo, laid out and drawn, logs no GTK warning or
+ * critical (such as a widget whose height-for-width is inconsistent). */
+static void
+test_startup_clean (void **state)
+{
+  QvWindow *window;
+
+  g_ptr_array_set_size (log_caught, 0);
+  log_listening = TRUE;
+  window = demo_window ();
+  qvg_spin (1.0);
+  /* Narrow and wide, as a user resizing the window would. */
+  gtk_window_set_default_size (GTK_WINDOW (window), 900, 600);
+  qvg_spin (0.5);
+  gtk_window_set_default_size (GTK_WINDOW (window), 1400, 900);
+  qvg_spin (0.5);
+  log_listening = FALSE;
+  for (guint i = 0; i < log_caught->len; i++)
+    print_message ("logged: %s\n", (char *) log_caught->pdata[i]);
+  assert_int_equal (log_caught->len, 0);
+  close_window (window);
+}
+
 /* The list's turning-point column follows v as qv_mode_set_turning_point
  * says; the selection drives the detail. */
 static void
@@ -492,6 +536,7 @@ int
 main (void)
 {
   const struct CMUnitTest tests[] = {
+    cmocka_unit_test (test_startup_clean),
     cmocka_unit_test (test_level_changes_turning_points),
     cmocka_unit_test (test_sort_numeric),
     cmocka_unit_test (test_animation_step),
@@ -503,6 +548,8 @@ main (void)
     cmocka_unit_test (test_headless_commands),
   };
 
+  log_caught = g_ptr_array_new_with_free_func (g_free);
+  g_log_set_writer_func (log_writer, NULL, NULL);
   qvg_app ();
   if (g_getenv ("QV_TEST_FILTER"))
     cmocka_set_test_filter (g_getenv ("QV_TEST_FILTER"));
