@@ -331,15 +331,15 @@ qv_mode_set_warnings (const QvModeSet *modes)
     rmax = MAX (rmax, fabs (modes->rotation_residuals[i]));
   if (modes->has_hessian && tmax > QV_RESIDUAL_WARNING)
     g_ptr_array_add (w, g_strdup_printf (
-      "translation residuals reach %.1f cm^-1: the Hessian does not conserve momentum "
+      "translation residuals reach %.1f cm⁻¹: the Hessian does not conserve momentum "
       "(check the acoustic sum, numerical noise or a cut-off)", tmax));
   if (modes->has_hessian && rmax > QV_RESIDUAL_WARNING)
     g_ptr_array_add (w, g_strdup_printf (
-      "rotation residuals reach %.1f cm^-1: the geometry is probably not a stationary point "
+      "rotation residuals reach %.1f cm⁻¹: the geometry is probably not a stationary point "
       "(re-optimise it; low modes may contain leaked rotation)", rmax));
   if (modes->has_gradient && modes->max_force > QV_FORCE_WARNING)
     g_ptr_array_add (w, g_strdup_printf (
-      "the largest atomic force is %.3g eV/A: the geometry is not a stationary point, so "
+      "the largest atomic force is %.3g eV/Å: the geometry is not a stationary point, so "
       "rotation leaks into the low modes (re-optimise it before trusting them)", modes->max_force));
   if (modes->rigid_mixing)
     {
@@ -356,7 +356,7 @@ qv_mode_set_warnings (const QvModeSet *modes)
         }
       if (worst_mix > QV_MIXING_WARNING)
         g_ptr_array_add (w, g_strdup_printf (
-          "mode %" G_GSIZE_FORMAT " (%.1f%s cm^-1) had %.1f%% rigid-body motion projected out: "
+          "mode %" G_GSIZE_FORMAT " (%.1f%s cm⁻¹) had %.1f%% rigid-body motion projected out: "
           "its frequency is unreliable until the geometry is converged",
           worst + 1, fabs (qv_mode_set_wavenumber (modes, worst)),
           qv_mode_set_is_imaginary (modes, worst) ? "i" : "", 100.0 * worst_mix));
