@@ -107,7 +107,7 @@ qv_render_options_init (QvRenderOptions *options)
     .arrow_threshold = 0.02f,
     .depth_cue = TRUE,
     .bond_radius = 0.13f,
-    .antialias = QV_ANTIALIAS_EDGES,
+    .antialias = QV_ANTIALIAS_NONE,
     .samples = 0,
   };
 }

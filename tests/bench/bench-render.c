@@ -10,8 +10,8 @@
  * waited for with glFinish: a frame counts only once it is finished. The
  * figure is the median over blocks of ten frames (the machine is shared),
  * with the process's CPU time per frame (all threads) beside it. AA modes:
- * edges — analytic antialiasing, one sample (the default, interactive);
- * none — hard edges; msaa4 — the renderer's own 4× multisampled buffer
+ * edges — analytic antialiasing, one sample; none — hard edges (the
+ * default options, fastest); msaa4 — the renderer's own 4× multisampled buffer
  * resolved each frame (stills). --samples multisamples the offscreen
  * framebuffer itself instead (as `quaver picture` does).
  *

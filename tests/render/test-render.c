@@ -18,6 +18,15 @@
 #define H 240
 
 static QvrContext *ctx;
+/* The edge treatment every test draws with (main's second argument). */
+static QvAntialias test_aa = QV_ANTIALIAS_NONE;
+
+static void
+options_init (QvRenderOptions *o)
+{
+  qv_render_options_init (o);
+  o->antialias = test_aa;
+}
 
 static float
 colour_distance (const guint8 *p, const float rgb[3])
@@ -32,7 +41,7 @@ static void
 default_options (void)
 {
   QvRenderOptions o;
-  qv_render_options_init (&o);
+  options_init (&o);
   qv_renderer_set_options (ctx->renderer, &o);
 }
 
@@ -198,7 +207,7 @@ test_depth_order (void **state)
   QvRenderOptions opt;
   QvCamera camera;
 
-  qv_render_options_init (&opt);
+  options_init (&opt);
   opt.bonds = FALSE;
   opt.depth_cue = FALSE;
   qv_renderer_set_options (ctx->renderer, &opt);
@@ -248,7 +257,7 @@ test_bond_split (void **state)
   QvCamera camera;
   float x, y, rgb[3], hue, chroma, ohue, oc;
 
-  qv_render_options_init (&opt);
+  options_init (&opt);
   opt.atom_scale = 0.4f;
   opt.depth_cue = FALSE;
   qv_renderer_set_options (ctx->renderer, &opt);
@@ -297,7 +306,7 @@ test_arrows (void **state)
   float x, y, rgb[3], accent[3], hue, chroma, ahue, ac, bg[4];
   int px, py;
 
-  qv_render_options_init (&opt);
+  options_init (&opt);
   opt.depth_cue = FALSE;
   opt.arrow_scale = 2.0f;
   qv_renderer_set_options (ctx->renderer, &opt);
@@ -346,7 +355,7 @@ test_cell (void **state)
   s->has_cell = TRUE;
   for (int k = 0; k < 3; k++)
     s->cell[k][k] = 5.0;
-  qv_render_options_init (&opt);
+  options_init (&opt);
   opt.depth_cue = FALSE;
   qv_renderer_set_options (ctx->renderer, &opt);
   qv_renderer_set_structure (ctx->renderer, s);
@@ -381,7 +390,7 @@ test_labels (void **state)
   QvCamera camera;
   float fg[3], best = 1.0f;
 
-  qv_render_options_init (&opt);
+  options_init (&opt);
   qv_renderer_set_options (ctx->renderer, &opt);
   qv_renderer_set_structure (ctx->renderer, s);
   qv_camera_init (&camera);
@@ -435,8 +444,8 @@ test_shader_error (void **state)
   glDeleteProgram (p);
 }
 
-/* With an argument: that many MSAA samples in the offscreen framebuffer
- * (0: one sample, the default analytic antialiasing the window uses). */
+/* With arguments: that many MSAA samples in the offscreen framebuffer, and
+ * "edges" for the analytic antialiasing on a one-sample framebuffer. */
 int
 main (int argc, char **argv)
 {
@@ -453,6 +462,8 @@ main (int argc, char **argv)
   int rc;
 
   ctx = qvr_context_new (W, H, argc > 1 ? atoi (argv[1]) : 4, 1);
+  if (argc > 2 && strcmp (argv[2], "edges") == 0)
+    test_aa = QV_ANTIALIAS_EDGES;
   if (argc > 1)
     ctx->save_prefix = "1x-";
   g_print ("GL renderer: %s, %d samples\n", qv_offscreen_renderer_name (ctx->offscreen),
