@@ -249,13 +249,11 @@ update_summary (QvModePanel *self)
       g_autofree char *text = g_strdup_printf ("⚠ %s", *w);
       GtkWidget *label = gtk_label_new (text);
       gtk_label_set_wrap (GTK_LABEL (label), TRUE);
-      gtk_label_set_natural_wrap_mode (GTK_LABEL (label), GTK_NATURAL_WRAP_WORD);
-      /* Natural width well under the panel's narrowest (420 px less its
-       * padding): measured without a width, a wrapping label then is at
-       * least as tall as when placed, so the height-for-width of the side
-       * panel (and of the paned and the stack above it) stays consistent.
-       * Placed, it still wraps at the width it is given. */
-      gtk_label_set_max_width_chars (GTK_LABEL (label), 24);
+      /* The summary sits in a scroller that asks for its content's
+       * natural height measured without a width: a natural width just
+       * under the panel's narrowest content (420 px less padding) keeps
+       * that height close to the placed one. */
+      gtk_label_set_max_width_chars (GTK_LABEL (label), 46);
       gtk_label_set_xalign (GTK_LABEL (label), 0.0f);
       gtk_box_append (self->warnings_box, label);
     }
