@@ -134,6 +134,14 @@ mass_clicked (QvAtomPopover *self)
   g_signal_emit (self, signals[MASS_CHOSEN], 0, self->atom, 0u, mass);
 }
 
+/* The summary is selectable (to copy its numbers) and takes the focus
+ * first: show it without everything selected. */
+static void
+popover_mapped (QvAtomPopover *self)
+{
+  gtk_label_select_region (self->summary_label, 0, 0);
+}
+
 static void
 qv_atom_popover_finalize (GObject *object)
 {
@@ -179,6 +187,7 @@ qv_atom_popover_init (QvAtomPopover *self)
   g_signal_connect_swapped (self->isotope_button, "clicked", G_CALLBACK (isotope_clicked), self);
   g_signal_connect_swapped (self->mass_button, "clicked", G_CALLBACK (mass_clicked), self);
   g_signal_connect_swapped (self->mass_entry, "activate", G_CALLBACK (mass_clicked), self);
+  g_signal_connect_after (self, "map", G_CALLBACK (popover_mapped), NULL);
 }
 
 QvAtomPopover *
