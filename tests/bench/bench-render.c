@@ -4,7 +4,10 @@
  *
  *   bench-render [--frames N] [--width W] [--height H] [--atoms N]
  *                [--aa edges|none|msaa4|all] [--samples S]
- *                [--no-arrows] [--no-bonds] [--dump PREFIX]
+ *                [--no-arrows] [--no-bonds] [--dump PREFIX] [--stats]
+ *
+ * --stats counts, over one frame, the vertex and fragment shader
+ * invocations (GL_ARB_pipeline_statistics_query, where the GL has it).
  *
  * Every frame changes the phase, is drawn (and for msaa4 resolved) and
  * waited for with glFinish: a frame counts only once it is finished. The
@@ -104,7 +107,7 @@ fit (QvCamera *camera, const QvStructure *s, int w, int h)
   qv_camera_fit (camera, p, s->n_atoms, 1.0f);
 }
 
-static gboolean opt_no_arrows, opt_no_bonds;
+static gboolean opt_no_arrows, opt_no_bonds, opt_stats;
 static int opt_samples;
 static const char *opt_dump;
 
@@ -165,6 +168,27 @@ run_fps (QvOffscreen *off, QvRenderer *r, gsize atoms, BenchAA aa, int frames, i
       qv_renderer_draw (r, &camera);
     }
   glFinish ();
+  if (opt_stats && epoxy_has_gl_extension ("GL_ARB_pipeline_statistics_query"))
+    {
+      static const GLenum what[3] = {
+        GL_VERTEX_SHADER_INVOCATIONS_ARB, GL_CLIPPING_INPUT_PRIMITIVES_ARB,
+        GL_FRAGMENT_SHADER_INVOCATIONS_ARB,
+      };
+      GLuint q[3];
+      GLuint64 v[3];
+      glGenQueries (3, q);
+      for (int k = 0; k < 3; k++)
+        {
+          glBeginQuery (what[k], q[k]);
+          qv_renderer_draw (r, &camera);
+          glEndQuery (what[k]);
+          glGetQueryObjectui64v (q[k], GL_QUERY_RESULT, &v[k]);
+        }
+      glDeleteQueries (3, q);
+      printf ("  one frame (%s): %" G_GUINT64_FORMAT " vertex shader invocations, %" G_GUINT64_FORMAT
+              " triangles, %" G_GUINT64_FORMAT " fragment shader invocations\n",
+              aa_names[aa], v[0], v[1], v[2]);
+    }
   c0 = cpu_seconds ();
   for (int f = 0; f < frames; f += 10)
     {
@@ -212,6 +236,11 @@ main (int argc, char **argv)
       if (strcmp (argv[i], "--no-arrows") == 0)
         {
           opt_no_arrows = TRUE;
+          i--;
+        }
+      else if (strcmp (argv[i], "--stats") == 0)
+        {
+          opt_stats = TRUE;
           i--;
         }
       else if (strcmp (argv[i], "--no-bonds") == 0)
