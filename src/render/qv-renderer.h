@@ -29,7 +29,7 @@ typedef enum {
  * pixel (a multisampled one always uses its samples, alpha-to-coverage). */
 typedef enum {
   QV_ANTIALIAS_EDGES,   /* analytic: each edge's coverage blended, two passes
-                         * (~1.6–1.7× the CPU time of NONE on llvmpipe) */
+                         * (~1.7× the CPU time of NONE on llvmpipe) */
   QV_ANTIALIAS_NONE,    /* hard edges (default: the fastest, as before) */
 } QvAntialias;
 
