@@ -193,9 +193,10 @@ upload (QvModeView *self)
           options.arrow_scale = (float) (ARROW_LONGEST / largest);
           options.arrow_threshold = (float) (ARROW_MIN_SHARE * largest);
         }
-      /* Moving: the renderer's interactive look (one sample, analytic
-       * edges); still: its multisampled quality, drawn once. */
-      options.antialias = QV_ANTIALIAS_EDGES;
+      /* Moving (playing, dragged, zoomed): the renderer's fastest look,
+       * hard edges on one sample; still: its quality for still pictures,
+       * four samples, drawn once. */
+      options.antialias = is_moving (self) ? QV_ANTIALIAS_NONE : QV_ANTIALIAS_EDGES;
       options.samples = is_moving (self) ? 0 : 4;
       options.colouring = self->participation_colouring && self->participation
                           ? QV_COLOUR_PARTICIPATION : QV_COLOUR_ELEMENT;
