@@ -213,6 +213,15 @@ qv_mode_set_collectivity (const QvModeSet *modes, gsize k)
 }
 
 double
+qv_mode_set_atom_displacement (const QvModeSet *modes, gsize k, gsize atom, double q)
+{
+  const double *l = qv_mode_set_vector (modes, k) + 3 * atom;
+
+  g_return_val_if_fail (atom < modes->n_atoms, NAN);
+  return fabs (q) * sqrt ((l[0] * l[0] + l[1] * l[1] + l[2] * l[2]) / modes->masses[atom]);
+}
+
+double
 qv_mode_set_max_displacement (const QvModeSet *modes, gsize k, double q, gsize *atom)
 {
   const double *l = qv_mode_set_vector (modes, k);

@@ -72,6 +72,8 @@ double qv_mode_set_force_constant (const QvModeSet *modes, gsize k);
 void qv_mode_set_participation (const QvModeSet *modes, gsize k, double *out);
 /* exp(−Σ p ln p)/N, in (0, 1]. */
 double qv_mode_set_collectivity (const QvModeSet *modes, gsize k);
+/* |Q·l_a|/√m_a of one atom (0-based), Å. */
+double qv_mode_set_atom_displacement (const QvModeSet *modes, gsize k, gsize atom, double q);
 /* Largest |Q·l_a|/√m_a over atoms for a given Q; returns Å, atom in @atom
  * (0-based). */
 double qv_mode_set_max_displacement (const QvModeSet *modes, gsize k, double q,

@@ -55,13 +55,10 @@ qv_atom_popover_show_atom (QvAtomPopover *self, QvDocument *doc, gsize atom, int
   if (k >= 0 && (gsize) k < m->n_modes)
     {
       g_autofree double *p = g_new (double, m->n_atoms);
-      g_autofree double *d = g_new (double, 3 * m->n_atoms);
       double disp;
 
       qv_mode_set_participation (m, (gsize) k, p);
-      qv_mode_set_cartesian (m, (gsize) k, d);
-      disp = fabs (amplitude) * sqrt (d[3 * atom] * d[3 * atom] + d[3 * atom + 1] * d[3 * atom + 1]
-                                      + d[3 * atom + 2] * d[3 * atom + 2]);
+      disp = qv_mode_set_atom_displacement (m, (gsize) k, atom, amplitude);
       g_string_append_c (summary, '\n');
       g_string_append_printf (summary, _("Share of mode %d: %.1f %%"), k + 1, 100.0 * p[atom]);
       g_string_append_c (summary, '\n');

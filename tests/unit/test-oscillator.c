@@ -121,6 +121,11 @@ test_display_amplitude (void **state)
   assert_false (from_tp);
   /* Largest displacement: atom 1 (mass 1) moves |l|/√m = 2/√5 per unit Q. */
   assert_rel (q * 2.0 / s5, 2.0 * QV_DISPLAY_FALLBACK_DISPLACEMENT, 1e-14);
+  /* Per atom |Q|·|l_a|/√m_a: 2/√5 per unit Q for the light atom; the centre
+   * of mass stays put (m₁d₁ = m₂d₂), so d₁/d₂ = m₂/m₁ = 4. */
+  assert_rel (qv_mode_set_atom_displacement (modes, 1, 0, -0.3), 0.3 * 2.0 / s5, 1e-14);
+  assert_rel (qv_mode_set_atom_displacement (modes, 1, 0, 0.3)
+              / qv_mode_set_atom_displacement (modes, 1, 1, 0.3), 4.0, 1e-14);
 }
 
 int
