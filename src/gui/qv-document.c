@@ -266,6 +266,15 @@ load_data_free (gpointer data)
 static void load_work (LoadData *d, GTask *task, const QvInputOptions *options,
                        const QvProgress *progress_in);
 
+/* Workers still running, abandoned ones included (see qv-document.h). */
+static gint running_workers;
+
+guint
+qv_document_running_workers (void)
+{
+  return (guint) g_atomic_int_get (&running_workers);
+}
+
 static void
 load_thread (GTask *task, gpointer source_object, gpointer task_data, GCancellable *cancellable)
 {
@@ -281,6 +290,7 @@ load_thread (GTask *task, gpointer source_object, gpointer task_data, GCancellab
   relay_post (&d->relay, -1.0, N_("reading"));
   load_work (d, task, &o, &progress);
   worker_restore_priority (priority);
+  g_atomic_int_dec_and_test (&running_workers);
 }
 
 static void
@@ -341,6 +351,7 @@ qv_document_load_async (const QvDocumentSource *source, GCancellable *cancellabl
   /* LAPACK cannot be interrupted: a cancelled load returns at once and the
    * worker's result is dropped when it ends. */
   g_task_set_return_on_cancel (task, TRUE);
+  g_atomic_int_inc (&running_workers);
   g_task_run_in_thread (task, load_thread);
 }
 
@@ -394,14 +405,15 @@ solve_thread (GTask *task, gpointer source_object, gpointer task_data, GCancella
 
   worker_restore_priority (priority);
   if (modes == NULL)
+    g_task_return_error (task, error);
+  else
     {
-      g_task_return_error (task, error);
-      return;
+      solved = g_new0 (Solved, 1);
+      solved->modes = modes;
+      solved->rows = compute_rows (modes);
+      g_task_return_pointer (task, solved, solved_free);
     }
-  solved = g_new0 (Solved, 1);
-  solved->modes = modes;
-  solved->rows = compute_rows (modes);
-  g_task_return_pointer (task, solved, solved_free);
+  g_atomic_int_dec_and_test (&running_workers);
 }
 
 void
@@ -428,6 +440,7 @@ qv_document_solve_async (QvDocument *doc, QvStructure *structure, GCancellable *
       return;
     }
   g_task_set_return_on_cancel (task, TRUE);
+  g_atomic_int_inc (&running_workers);
   g_task_run_in_thread (task, solve_thread);
 }
 

@@ -79,6 +79,11 @@ void qv_document_solve_async (QvDocument *doc, QvStructure *structure,
                               GCancellable *cancellable,
                               QvDocumentProgressFunc progress, gpointer progress_data,
                               GAsyncReadyCallback callback, gpointer user_data);
+/* Load and solve workers still running, including ones abandoned by a
+ * cancel (a LAPACK call cannot be interrupted). The process must not run
+ * its exit handlers under them: OpenBLAS frees its buffers there. */
+guint qv_document_running_workers (void);
+
 gboolean qv_document_solve_finish (QvDocument *doc, GAsyncResult *result, GError **error);
 
 G_END_DECLS

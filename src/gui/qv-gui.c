@@ -5,6 +5,7 @@
 #include <string.h>
 #include <unistd.h>
 #include "qv-application.h"
+#include "qv-document.h"
 #include "qv-config.h"
 #include "qv-gui.h"
 #include "qv-gui-private.h"
@@ -46,12 +47,23 @@ int
 qv_gui_run (int argc, char **argv)
 {
   g_autoptr(QvApplication) app = NULL;
+  int status;
 
   gui_start_us = g_get_monotonic_time ();
   qv_gui_init_i18n ();
   g_set_application_name (_("Quaver"));
   app = qv_application_new ();
-  return g_application_run (G_APPLICATION (app), argc, argv);
+  status = g_application_run (G_APPLICATION (app), argc, argv);
+  /* A worker abandoned by Cancel may still be inside LAPACK: exiting
+   * normally would run OpenBLAS's destructors under it and crash. Nothing
+   * is lost by leaving at once: such workers only compute, and every file
+   * is written atomically by code that has returned by now. */
+  if (qv_document_running_workers () > 0)
+    {
+      fflush (NULL);
+      _exit (status);
+    }
+  return status;
 }
 
 
