@@ -5,13 +5,21 @@
  * instance, so each impostor is a quad of four indexed vertices whose
  * index gives the atom, bond or arrow. The atoms' rest positions and
  * displacement field live in a texture buffer uploaded once per mode; per
- * frame only the phase changes (one small uniform block).
+ * frame only the phase changes (one small uniform block) — and, with
+ * occlusion culling on (QvRenderOptions.occlusion_cull, off by default), one
+ * small list of the impostors not certainly hidden (4 bytes each, at most
+ * one per atom, bond and arrow), found on the CPU by qv-occlusion.c from
+ * the positions at the phase (as picking uses them) and uploaded with
+ * glBufferSubData: the quads then read their atom, bond or arrow through
+ * it (u_list, shaders/common.glsl). Hidden impostors are never shaded;
+ * what is drawn is the same, pixel for pixel (tests/render/test-cull.c).
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <epoxy/gl.h>
 #include <math.h>
 #include <string.h>
 #include "qv-bonds.h"
 #include "qv-element.h"
+#include "qv-occlusion-private.h"
 #include "qv-renderer.h"
 #include "qv-renderer-private.h"
 
@@ -26,6 +34,14 @@ enum {
 static const char *const program_names[N_PROGRAMS] = {
   "sphere", "cylinder", "arrow", "line", "label", "sphere", "cylinder", "arrow",
 };
+
+/* Occlusion culling's screen cells, pixels (see qv-occlusion-private.h). */
+#define OCCLUSION_CELL 1
+/* Pixels an impostor's fragments may reach past its geometry (the
+ * coverage ramp and the antialiasing margin are at most 1.25). */
+#define OCCLUSION_MARGIN_PX 2.0f
+/* The arrows' largest head radius, Å (HEAD in shaders/arrow.vert). */
+#define ARROW_HEAD_RADIUS 0.14f
 
 /* Edge treatments, the QV_AA_* of shaders/common.glsl. */
 enum { AA_COVERAGE, AA_SOLID, AA_INNER, AA_FRINGE };
@@ -63,6 +79,7 @@ typedef struct {
 struct _QvRenderer {
   GLuint programs[N_PROGRAMS];
   GLint aa_location[N_PROGRAMS];            /* u_aa, −1 where unused */
+  GLint list_location[N_PROGRAMS];          /* u_list_base, −1 where unused */
   GLuint ubo;
   GLuint atom_buffer, atom_texture;       /* 3 RGBA32F texels per atom */
   GLuint colour_buffer, colour_texture;   /* 1 RGBA8 texel per atom */
@@ -70,6 +87,8 @@ struct _QvRenderer {
   gsize n_quads;                            /* how many the indices cover */
   GLuint bond_buffer, bond_texture;         /* RG32UI: the two atoms */
   GLuint arrow_buffer, arrow_texture;       /* R32UI: atoms */
+  GLuint list_buffer, list_texture;         /* R32UI: this frame's culled lists */
+  gsize list_capacity;                      /* entries the buffer holds */
   GLuint msaa_fbo, msaa_colour, msaa_depth; /* options.samples > 0 */
   int msaa_width, msaa_height, msaa_samples;
   GLuint cell_vao, cell_buffer;
@@ -78,6 +97,15 @@ struct _QvRenderer {
 
   gsize n_atoms, n_bonds, n_arrows, n_label_glyphs;
   gboolean has_cell;
+  QvBond *bonds;               /* n_bonds, as perceived */
+  guint32 *arrow_atoms;        /* n_arrows: the atom of each arrow */
+  /* Occlusion culling: the lists [atoms | bonds | arrows] of this frame. */
+  QvOcclusion *occlusion;
+  float *view_positions;       /* 3N, view space */
+  guint32 *list;
+  gsize list_alloc;
+  gsize n_listed[3];           /* atoms, bonds, arrows drawn; when !listed: all */
+  gboolean listed;
   guint *z;
   float *rest;                 /* 3N, Å */
   float *re, *im;              /* 3N, Å, amplitude included; NULL: none */
@@ -109,6 +137,7 @@ qv_render_options_init (QvRenderOptions *options)
     .bond_radius = 0.13f,
     .antialias = QV_ANTIALIAS_NONE,
     .samples = 0,
+    .occlusion_cull = FALSE,
   };
 }
 
@@ -125,6 +154,7 @@ setup_program (GLuint program)
   glUniform1i (glGetUniformLocation (program, "u_atlas"), 2);
   glUniform1i (glGetUniformLocation (program, "u_bonds"), 3);
   glUniform1i (glGetUniformLocation (program, "u_arrows"), 4);
+  glUniform1i (glGetUniformLocation (program, "u_list"), 5);
   glUseProgram (0);
 }
 
@@ -206,6 +236,7 @@ qv_renderer_new (GError **error)
         }
       setup_program (r->programs[p]);
       r->aa_location[p] = glGetUniformLocation (r->programs[p], "u_aa");
+      r->list_location[p] = glGetUniformLocation (r->programs[p], "u_list_base");
     }
   qv_render_options_init (&r->options);
   r->highlight = -1;
@@ -237,6 +268,8 @@ qv_renderer_new (GError **error)
 
   texture_buffer (&r->bond_buffer, &r->bond_texture, GL_RG32UI);
   texture_buffer (&r->arrow_buffer, &r->arrow_texture, GL_R32UI);
+  texture_buffer (&r->list_buffer, &r->list_texture, GL_R32UI);
+  r->occlusion = qv_occlusion_new (OCCLUSION_CELL);
 
   glGenVertexArrays (1, &r->cell_vao);
   glBindVertexArray (r->cell_vao);
@@ -267,7 +300,7 @@ qv_renderer_new (GError **error)
 void
 qv_renderer_free (QvRenderer *r)
 {
-  GLuint buffers[10], vaos[4], textures[5], rbs[2];
+  GLuint buffers[10], vaos[4], textures[6], rbs[2];
 
   if (r == NULL)
     return;
@@ -283,7 +316,7 @@ qv_renderer_free (QvRenderer *r)
   buffers[6] = r->arrow_buffer;
   buffers[7] = r->cell_buffer;
   buffers[8] = r->label_buffer;
-  buffers[9] = 0;
+  buffers[9] = r->list_buffer;
   glDeleteBuffers (10, buffers);
   vaos[0] = r->quad_vao;
   vaos[1] = 0;
@@ -295,7 +328,8 @@ qv_renderer_free (QvRenderer *r)
   textures[2] = r->atlas_texture;
   textures[3] = r->bond_texture;
   textures[4] = r->arrow_texture;
-  glDeleteTextures (5, textures);
+  textures[5] = r->list_texture;
+  glDeleteTextures (6, textures);
   rbs[0] = r->msaa_colour;
   rbs[1] = r->msaa_depth;
   glDeleteRenderbuffers (2, rbs);
@@ -310,6 +344,11 @@ qv_renderer_free (QvRenderer *r)
   g_free (r->radii);
   g_free (r->participation);
   g_free (r->positions);
+  g_free (r->view_positions);
+  g_free (r->bonds);
+  g_free (r->arrow_atoms);
+  g_free (r->list);
+  qv_occlusion_free (r->occlusion);
   g_free (r);
 }
 
@@ -383,6 +422,8 @@ upload_arrows (QvRenderer *r)
       }
   fill_texture_buffer (r->arrow_buffer, r->arrow_texture, GL_R32UI, 4 * r->n_arrows, list);
   ensure_quads (r, r->n_arrows);
+  g_free (r->arrow_atoms);
+  r->arrow_atoms = g_steal_pointer (&list);
 }
 
 static void
@@ -484,6 +525,8 @@ qv_renderer_set_structure (QvRenderer *r, const QvStructure *structure)
   g_free (r->style_radii);
   g_free (r->radii);
   g_free (r->positions);
+  g_free (r->view_positions);
+  g_clear_pointer (&r->bonds, g_free);
   g_clear_pointer (&r->re, g_free);
   g_clear_pointer (&r->im, g_free);
   g_clear_pointer (&r->participation, g_free);
@@ -493,6 +536,7 @@ qv_renderer_set_structure (QvRenderer *r, const QvStructure *structure)
   r->style_radii = g_new (float, MAX (n, 1));
   r->radii = g_new (float, MAX (n, 1));
   r->positions = g_new (float, 3 * MAX (n, 1));
+  r->view_positions = g_new (float, 3 * MAX (n, 1));
   r->positions_valid = FALSE;
   r->highlight = -1;
   for (gsize i = 0; i < n; i++)
@@ -512,6 +556,7 @@ qv_renderer_set_structure (QvRenderer *r, const QvStructure *structure)
   r->n_bonds = n_bonds;
   ensure_quads (r, MAX (n, n_bonds));
   fill_texture_buffer (r->bond_buffer, r->bond_texture, GL_RG32UI, sizeof (QvBond) * n_bonds, bonds);
+  r->bonds = g_steal_pointer (&bonds);
 
   /* Cell edges: the 12 edges between the corners i·a + j·b + k·c. */
   r->has_cell = structure->has_cell;
@@ -712,6 +757,93 @@ ensure_msaa (QvRenderer *r, int w, int h)
   return TRUE;
 }
 
+/* The lists of what to draw (r->n_listed, r->list): with culling, the
+ * atoms, bonds and arrows not certainly hidden behind the atoms' spheres,
+ * uploaded; without, all of them. */
+static void
+cull (QvRenderer *r, const FrameBlock *f)
+{
+  const float *p, *v = f->view;
+  float *vp = r->view_positions;
+  gsize need = r->n_atoms + r->n_bonds + r->n_arrows, m = 0;
+
+  r->n_listed[0] = r->n_atoms;
+  r->n_listed[1] = r->n_bonds;
+  r->n_listed[2] = r->n_arrows;
+  r->listed = r->options.occlusion_cull && r->n_atoms > 0;
+  if (!r->listed)
+    return;
+  if (need > r->list_alloc)
+    {
+      g_free (r->list);
+      r->list = g_new (guint32, need);
+      r->list_alloc = need;
+    }
+  p = qv_renderer_positions (r);
+  for (gsize i = 0; i < r->n_atoms; i++)
+    for (int k = 0; k < 3; k++)
+      vp[3 * i + k] = v[k] * p[3 * i] + v[4 + k] * p[3 * i + 1] + v[8 + k] * p[3 * i + 2] + v[12 + k];
+  qv_occlusion_begin (r->occlusion, f->proj, (int) f->viewport[0], (int) f->viewport[1]);
+  for (gsize i = 0; i < r->n_atoms; i++)
+    qv_occlusion_add_sphere (r->occlusion, vp + 3 * i, r->radii[i]);
+
+  for (gsize i = 0; i < r->n_atoms; i++)
+    if (!qv_occlusion_hidden (r->occlusion, vp + 3 * i, vp + 3 * i, r->radii[i], OCCLUSION_MARGIN_PX))
+      r->list[m++] = (guint32) i;
+  r->n_listed[0] = m;
+  r->n_listed[1] = 0;
+  if (r->options.bonds)
+    for (gsize b = 0; b < r->n_bonds; b++)
+      {
+        /* The whole axis between the centres, fattened by the radius:
+         * it holds the drawn part. */
+        const float *a0 = vp + 3 * r->bonds[b].a, *b0 = vp + 3 * r->bonds[b].b;
+        if (!qv_occlusion_hidden (r->occlusion, a0, b0, r->options.bond_radius, OCCLUSION_MARGIN_PX))
+          {
+            r->list[m++] = (guint32) b;
+            r->n_listed[1]++;
+          }
+      }
+  r->n_listed[2] = 0;
+  if (r->options.arrows && r->re)
+    for (gsize j = 0; j < r->n_arrows; j++)
+      {
+        /* As shaders/arrow.vert places it: from 0.85 of the radius along
+         * the Re field, u_arrow_scale × its length long. */
+        gsize i = r->arrow_atoms[j];
+        const float *d = r->re + 3 * i;
+        float amp = sqrtf (d[0] * d[0] + d[1] * d[1] + d[2] * d[2]), ends[2][3], w[2][3];
+        float along[2];
+        if (!(amp > 0.0f))
+          continue;   /* arrow.vert draws a degenerate quad: nothing */
+        along[0] = 0.85f * r->radii[i];
+        along[1] = along[0] + r->options.arrow_scale * amp;
+        for (int e = 0; e < 2; e++)
+          for (int k = 0; k < 3; k++)
+            w[e][k] = p[3 * i + k] + d[k] / amp * along[e];
+        for (int e = 0; e < 2; e++)
+          for (int k = 0; k < 3; k++)
+            ends[e][k] = v[k] * w[e][0] + v[4 + k] * w[e][1] + v[8 + k] * w[e][2] + v[12 + k];
+        if (!qv_occlusion_hidden (r->occlusion, ends[0], ends[1], ARROW_HEAD_RADIUS, OCCLUSION_MARGIN_PX))
+          {
+            r->list[m++] = (guint32) j;
+            r->n_listed[2]++;
+          }
+      }
+
+  if (m > r->list_capacity || r->list_capacity == 0)
+    {
+      r->list_capacity = MAX (need, 4);
+      fill_texture_buffer (r->list_buffer, r->list_texture, GL_R32UI, 4 * r->list_capacity, NULL);
+    }
+  if (m > 0)
+    {
+      glBindBuffer (GL_TEXTURE_BUFFER, r->list_buffer);
+      glBufferSubData (GL_TEXTURE_BUFFER, 0, 4 * m, r->list);
+      glBindBuffer (GL_TEXTURE_BUFFER, 0);
+    }
+}
+
 /* The impostors (spheres, bonds, arrows) with edge treatment @aa. */
 static void
 draw_impostors (QvRenderer *r, int aa)
@@ -719,20 +851,22 @@ draw_impostors (QvRenderer *r, int aa)
   int shift = aa == AA_FRINGE ? FRINGE : 0;
 
   glBindVertexArray (r->quad_vao);
-  glUseProgram (r->programs[PROG_SPHERE + shift]);
-  glUniform1i (r->aa_location[PROG_SPHERE + shift], aa);
-  glDrawElements (GL_TRIANGLES, 6 * (GLsizei) r->n_atoms, GL_UNSIGNED_INT, NULL);
-  if (r->options.bonds && r->n_bonds > 0)
+  const int kinds[3] = { PROG_SPHERE, PROG_CYLINDER, PROG_ARROW };
+  const gboolean on[3] = { TRUE, r->options.bonds, r->options.arrows };
+  gsize base = 0;
+
+  for (int k = 0; k < 3; k++)
     {
-      glUseProgram (r->programs[PROG_CYLINDER + shift]);
-      glUniform1i (r->aa_location[PROG_CYLINDER + shift], aa);
-      glDrawElements (GL_TRIANGLES, 6 * (GLsizei) r->n_bonds, GL_UNSIGNED_INT, NULL);
-    }
-  if (r->options.arrows && r->n_arrows > 0)
-    {
-      glUseProgram (r->programs[PROG_ARROW + shift]);
-      glUniform1i (r->aa_location[PROG_ARROW + shift], aa);
-      glDrawElements (GL_TRIANGLES, 6 * (GLsizei) r->n_arrows, GL_UNSIGNED_INT, NULL);
+      int p = kinds[k] + shift;
+      gsize count = r->n_listed[k];
+      if (on[k] && count > 0)
+        {
+          glUseProgram (r->programs[p]);
+          glUniform1i (r->aa_location[p], aa);
+          glUniform1i (r->list_location[p], r->listed ? (GLint) base : -1);
+          glDrawElements (GL_TRIANGLES, 6 * (GLsizei) count, GL_UNSIGNED_INT, NULL);
+        }
+      base += count;
     }
 }
 
@@ -756,6 +890,7 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
   if (r->n_atoms == 0)
     goto resolve;
 
+  cull (r, &frame);
   glBindBuffer (GL_UNIFORM_BUFFER, r->ubo);
   glBufferSubData (GL_UNIFORM_BUFFER, 0, sizeof frame, &frame);
   glBindBufferBase (GL_UNIFORM_BUFFER, 0, r->ubo);
@@ -769,6 +904,8 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
   glBindTexture (GL_TEXTURE_BUFFER, r->bond_texture);
   glActiveTexture (GL_TEXTURE4);
   glBindTexture (GL_TEXTURE_BUFFER, r->arrow_texture);
+  glActiveTexture (GL_TEXTURE5);
+  glBindTexture (GL_TEXTURE_BUFFER, r->list_texture);
   glActiveTexture (GL_TEXTURE0);
 
   glEnable (GL_DEPTH_TEST);
@@ -866,4 +1003,11 @@ gsize
 qv_renderer_n_bonds (const QvRenderer *r)
 {
   return r->n_bonds;
+}
+
+void
+qv_renderer_drawn_counts (const QvRenderer *r, gsize counts[3])
+{
+  for (int k = 0; k < 3; k++)
+    counts[k] = r->n_listed[k];
 }

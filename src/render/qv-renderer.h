@@ -53,6 +53,14 @@ typedef struct {
                             * one, resolved into the bound framebuffer at the
                             * end of qv_renderer_draw — for still pictures in
                             * a window (4–5× slower on llvmpipe) */
+  gboolean occlusion_cull; /* TRUE: per frame, skip the atoms, bonds and
+                            * arrows certainly hidden behind atoms (found on
+                            * the CPU, conservative: the picture is the
+                            * same). Default FALSE: with the style's ball
+                            * and stick radii almost every atom shows
+                            * somewhere, so it costs more than it saves
+                            * (docs/performance.md); a win with larger
+                            * atom_scale */
 } QvRenderOptions;
 
 void qv_render_options_init (QvRenderOptions *options);
@@ -93,5 +101,8 @@ const float *qv_renderer_radii (const QvRenderer *renderer);
 gsize qv_renderer_n_atoms (const QvRenderer *renderer);
 /* Added by the renderer: number of bonds drawn (perceived by qv-bonds.h). */
 gsize qv_renderer_n_bonds (const QvRenderer *renderer);
+/* Added for occlusion culling: how many atoms, bonds and arrows the last
+ * qv_renderer_draw sent to the GL (after culling; all of them without). */
+void qv_renderer_drawn_counts (const QvRenderer *renderer, gsize counts[3]);
 
 G_END_DECLS

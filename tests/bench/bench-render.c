@@ -5,6 +5,7 @@
  *   bench-render [--frames N] [--width W] [--height H] [--atoms N]
  *                [--aa edges|none|msaa4|all] [--samples S]
  *                [--no-arrows] [--no-bonds] [--dump PREFIX] [--stats]
+ *                [--shape chains|droplet] [--cull|--no-cull] [--atom-scale X]
  *
  * --stats counts, over one frame, the vertex and fragment shader
  * invocations (GL_ARB_pipeline_statistics_query, where the GL has it).
@@ -21,7 +22,18 @@
  * Structures for the frame rate are invented here: parallel zigzag
  * hydrocarbon chains (C–C 1.54 Å, C–H 1.09 Å, tetrahedral-like angles,
  * chains 4.6 Å apart), so that bonds are perceived as in a real molecular
- * crystal, with an invented smooth displacement field as the "mode".
+ * crystal, with an invented smooth displacement field as the "mode"
+ * (--shape chains, the default: a block about 50 × 50 × 38 Å at 10 000
+ * atoms, 0.11 atoms/Å³ like a real alkane crystal); or --shape droplet, a
+ * ball of water molecules (O–H 0.96 Å, H–O–H 104.5°, common practice) on
+ * a grid jittered by ±0.4 Å (no straight channels) at about liquid water's density (1 molecule per 30 Å³),
+ * randomly oriented: the shape of a solvated system. --cull and --no-cull
+ * turn the renderer's occlusion culling on or off
+ * (QvRenderOptions.occlusion_cull; without either, its default); each
+ * run prints how many atoms, bonds and arrows were drawn after culling;
+ * --stats also prints the most any atom-level culling could skip (oracle).
+ * --atom-scale sets QvRenderOptions.atom_scale (1: the style's ball and
+ * stick radii; about 2.5 approaches space filling).
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <epoxy/gl.h>
 #include <math.h>
@@ -70,6 +82,59 @@ chains (gsize target)
   return s;
 }
 
+static QvStructure *
+droplet (gsize target)
+{
+  /* Grid spacing a = 30^(1/3) Å; keep the nodes inside the ball that holds
+   * target / 3 of them. */
+  const double a = cbrt (30.0), oh = 0.96, angle = 104.5 * G_PI / 180.0;
+  double radius = cbrt ((double) (target / 3) * 30.0 * 3.0 / (4.0 * G_PI));
+  int m = (int) ceil (radius / a) + 1;
+  gsize n = 0, cap = target + 3;
+  QvStructure *s = qv_structure_new (cap, NULL);
+  guint64 seed = 7;
+
+  for (int i = -m; i <= m; i++)
+    for (int j = -m; j <= m; j++)
+      for (int k = -m; k <= m; k++)
+        {
+          double o[3] = { i * a, j * a, k * a }, u[3], v[3], w[3], len;
+          if (o[0] * o[0] + o[1] * o[1] + o[2] * o[2] > radius * radius || n + 3 > target)
+            continue;
+          for (int q = 0; q < 3; q++)
+            o[q] += 0.8 * (bench_uniform (&seed) - 0.5);
+          /* A random orthonormal pair (u, v) for the molecule's plane. */
+          do
+            {
+              for (int q = 0; q < 3; q++)
+                u[q] = bench_uniform (&seed) - 0.5;
+              len = sqrt (u[0] * u[0] + u[1] * u[1] + u[2] * u[2]);
+            }
+          while (len < 0.1);
+          for (int q = 0; q < 3; q++)
+            u[q] /= len;
+          w[0] = u[1] * 0.3 - u[2] * 0.7;
+          w[1] = u[2] * 0.5 - u[0] * 0.3;
+          w[2] = u[0] * 0.7 - u[1] * 0.5;
+          len = sqrt (w[0] * w[0] + w[1] * w[1] + w[2] * w[2]);
+          for (int q = 0; q < 3; q++)
+            v[q] = w[q] / len;
+          qv_structure_set_element (s, n, 8, NULL);
+          memcpy (s->atoms[n].position, o, sizeof o);
+          n++;
+          for (int h = 0; h < 2; h++)
+            {
+              double t = (h ? 0.5 : -0.5) * angle;
+              qv_structure_set_element (s, n, 1, NULL);
+              for (int q = 0; q < 3; q++)
+                s->atoms[n].position[q] = o[q] + oh * (cos (t) * u[q] + sin (t) * v[q]);
+              n++;
+            }
+        }
+  s->n_atoms = n;
+  return s;
+}
+
 static double
 now (void)
 {
@@ -107,8 +172,10 @@ fit (QvCamera *camera, const QvStructure *s, int w, int h)
   qv_camera_fit (camera, p, s->n_atoms, 1.0f);
 }
 
-static gboolean opt_no_arrows, opt_no_bonds, opt_stats;
+static gboolean opt_no_arrows, opt_no_bonds, opt_stats, opt_droplet;
+static int opt_cull = -1;   /* −1: the renderer's default */
 static int opt_samples;
+static double opt_atom_scale = 1.0;
 static const char *opt_dump;
 
 /* Writes the last frame as binary PPM (for looking at what was measured). */
@@ -129,19 +196,94 @@ dump (QvOffscreen *off, int w, int h, gsize atoms, const char *mode)
   fclose (f);
 }
 
+/* The most any atom-level culling could skip: ray-casts the spheres alone
+ * on the CPU, pixel by pixel (perspective), and counts the atoms that are
+ * the nearest at one pixel centre at least. Bonds and arrows, which also
+ * hide atoms, are left out, so this is an upper bound on hidden atoms that
+ * is close for thin bonds. */
+static void
+oracle (QvRenderer *r, const QvCamera *camera)
+{
+  const float *p = qv_renderer_positions (r), *rad = qv_renderer_radii (r);
+  gsize n = qv_renderer_n_atoms (r), seen = 0;
+  int w = camera->width, h = camera->height;
+  g_autofree float *depth = g_new (float, (gsize) w * h);
+  g_autofree gint32 *id = g_new (gint32, (gsize) w * h);
+  g_autofree guint8 *front = g_new0 (guint8, MAX (n, 1));
+  mat4 view, proj;
+
+  qv_camera_view_matrix (camera, view);
+  qv_camera_projection_matrix (camera, proj);
+  for (gsize i = 0; i < (gsize) w * h; i++)
+    {
+      depth[i] = INFINITY;
+      id[i] = -1;
+    }
+  for (gsize i = 0; i < n; i++)
+    {
+      vec4 c = { p[3 * i], p[3 * i + 1], p[3 * i + 2], 1.0f }, v;
+      float rr = rad[i], d;
+      int x0, x1, y0, y1;
+      glm_mat4_mulv (view, c, v);
+      d = -v[2];
+      if (d - rr <= 0.01f)
+        continue;
+      /* A generous bounding square of the silhouette. */
+      {
+        float cx = (proj[0][0] * v[0] / d + 1.0f) * 0.5f * w;
+        float cy = (proj[1][1] * v[1] / d + 1.0f) * 0.5f * h;
+        float rp = proj[1][1] * 0.5f * h * rr / (d - rr) * 1.5f + 2.0f;
+        x0 = MAX ((int) (cx - rp), 0);
+        x1 = MIN ((int) (cx + rp), w - 1);
+        y0 = MAX ((int) (cy - rp), 0);
+        y1 = MIN ((int) (cy + rp), h - 1);
+      }
+      for (int y = y0; y <= y1; y++)
+        for (int x = x0; x <= x1; x++)
+          {
+            /* Ray through the pixel centre, as shaders/common.glsl. */
+            float dx = ((x + 0.5f) * 2.0f / w - 1.0f) / proj[0][0];
+            float dy = ((y + 0.5f) * 2.0f / h - 1.0f) / proj[1][1];
+            float len = sqrtf (dx * dx + dy * dy + 1.0f);
+            float dir[3] = { dx / len, dy / len, -1.0f / len };
+            float b = -(dir[0] * v[0] + dir[1] * v[1] + dir[2] * v[2]);
+            float q2 = v[0] * v[0] + v[1] * v[1] + v[2] * v[2] - b * b, t, z;
+            if (q2 >= rr * rr)
+              continue;
+            t = -b - sqrtf (rr * rr - q2);
+            t = -t;   /* distance along the ray to the front */
+            z = -t * dir[2];
+            if (z < depth[(gsize) y * w + x])
+              {
+                depth[(gsize) y * w + x] = z;
+                id[(gsize) y * w + x] = (gint32) i;
+              }
+          }
+    }
+  for (gsize i = 0; i < (gsize) w * h; i++)
+    if (id[i] >= 0 && !front[id[i]])
+      {
+        front[id[i]] = 1;
+        seen++;
+      }
+  printf ("  oracle (spheres only): %zu of %zu atoms (%.1f %%) are nearest at some pixel\n",
+          seen, n, 100.0 * seen / MAX (n, 1));
+}
+
 typedef enum { AA_EDGES, AA_NONE, AA_MSAA4, N_AA } BenchAA;
 static const char *const aa_names[N_AA] = { "edges", "none", "msaa4" };
 
 static void
 run_fps (QvOffscreen *off, QvRenderer *r, gsize atoms, BenchAA aa, int frames, int w, int h)
 {
-  g_autoptr(QvStructure) s = chains (atoms);
+  g_autoptr(QvStructure) s = opt_droplet ? droplet (atoms) : chains (atoms);
   g_autofree float *re = g_new (float, 3 * s->n_atoms);
   QvCamera camera;
   double t0, c0, cpu, block[64], t;
   int dw, dh, n_blocks = 0;
   guint64 seed = 42;
   char mode[64];
+  gsize drawn[3];
 
   /* An invented field: a smooth wave plus a little noise, 0.1–0.3 Å. */
   for (gsize i = 0; i < s->n_atoms; i++)
@@ -158,6 +300,9 @@ run_fps (QvOffscreen *off, QvRenderer *r, gsize atoms, BenchAA aa, int frames, i
     o.bonds = !opt_no_bonds;
     o.antialias = aa == AA_NONE ? QV_ANTIALIAS_NONE : QV_ANTIALIAS_EDGES;
     o.samples = aa == AA_MSAA4 ? 4 : 0;
+    if (opt_cull >= 0)
+      o.occlusion_cull = opt_cull;
+    o.atom_scale = (float) opt_atom_scale;
     qv_renderer_set_options (r, &o);
   }
   fit (&camera, s, dw, dh);
@@ -189,6 +334,8 @@ run_fps (QvOffscreen *off, QvRenderer *r, gsize atoms, BenchAA aa, int frames, i
               " triangles, %" G_GUINT64_FORMAT " fragment shader invocations\n",
               aa_names[aa], v[0], v[1], v[2]);
     }
+  if (opt_stats)
+    oracle (r, &camera);
   c0 = cpu_seconds ();
   for (int f = 0; f < frames; f += 10)
     {
@@ -210,11 +357,15 @@ run_fps (QvOffscreen *off, QvRenderer *r, gsize atoms, BenchAA aa, int frames, i
     g_snprintf (mode, sizeof mode, "%d× MSAA framebuffer", opt_samples);
   else
     g_snprintf (mode, sizeof mode, "%s", aa_names[aa]);
+  qv_renderer_drawn_counts (r, drawn);
   printf ("%6zu atoms %6zu bonds%s%s  %4d×%d  %-6s %3d frames  %7.1f ms/frame (best block %.1f)  "
           "%6.1f fps  cpu %6.1f ms/frame\n",
           s->n_atoms, qv_renderer_n_bonds (r), opt_no_bonds ? " (off)" : "",
           opt_no_arrows ? ", no arrows" : ", arrows", w, h, mode, frames,
           1e3 * t, 1e3 * block[0], 1.0 / t, 1e3 * cpu);
+  printf ("  %s, culling %s: drawn in the last frame %zu atoms, %zu bonds, %zu arrows\n",
+          opt_droplet ? "droplet" : "chains", qv_renderer_get_options (r)->occlusion_cull ? "on" : "off",
+          drawn[0], drawn[1], drawn[2]);
   fflush (stdout);
   if (opt_dump)
     dump (off, w, h, atoms, aa_names[aa]);
@@ -243,6 +394,11 @@ main (int argc, char **argv)
           opt_stats = TRUE;
           i--;
         }
+      else if (strcmp (argv[i], "--no-cull") == 0 || strcmp (argv[i], "--cull") == 0)
+        {
+          opt_cull = strcmp (argv[i], "--cull") == 0;
+          i--;
+        }
       else if (strcmp (argv[i], "--no-bonds") == 0)
         {
           opt_no_bonds = TRUE;
@@ -260,6 +416,14 @@ main (int argc, char **argv)
         samples = atoi (argv[i + 1]);
       else if (strcmp (argv[i], "--atoms") == 0)
         atoms = atoi (argv[i + 1]);
+      else if (strcmp (argv[i], "--shape") == 0)
+        {
+          if (strcmp (argv[i + 1], "droplet") != 0 && strcmp (argv[i + 1], "chains") != 0)
+            bench_die ("--shape: chains or droplet, not %s", argv[i + 1]);
+          opt_droplet = strcmp (argv[i + 1], "droplet") == 0;
+        }
+      else if (strcmp (argv[i], "--atom-scale") == 0)
+        opt_atom_scale = g_ascii_strtod (argv[i + 1], NULL);
       else if (strcmp (argv[i], "--dump") == 0)
         opt_dump = argv[i + 1];
       else if (strcmp (argv[i], "--aa") == 0)

@@ -34,7 +34,7 @@ float cover_radius (vec3 c, float r, float zq)
 
 void main ()
 {
-  int i = int (texelFetch (u_arrows, gl_VertexID >> 2).r);
+  int i = int (texelFetch (u_arrows, qv_listed (gl_VertexID >> 2)).r);
   vec3 centre = qv_atom_position (i);
   vec3 field = texelFetch (u_atoms, 3 * i + 1).xyz;
   float amp = length (field);

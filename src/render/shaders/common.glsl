@@ -86,6 +86,19 @@ uniform samplerBuffer u_atoms;
 // One RGBA8 texel per atom: its colour (element or participation), sRGB.
 uniform samplerBuffer u_colours;
 
+#ifndef QV_FRAGMENT
+// Occlusion culling (qv-renderer.c): with u_list_base ≥ 0 quad q draws the
+// impostor at entry u_list_base + q of this frame's list of those not
+// certainly hidden; with −1, impostor q.
+uniform usamplerBuffer u_list;
+uniform int u_list_base;
+
+int qv_listed (int q)
+{
+  return u_list_base < 0 ? q : int (texelFetch (u_list, u_list_base + q).r);
+}
+#endif
+
 vec3 qv_atom_position (int i)
 {
   vec3 rest = texelFetch (u_atoms, 3 * i).xyz;

@@ -33,7 +33,7 @@ float cover_radius (vec3 c, float r, float zq)
 
 void main ()
 {
-  uvec2 bond = texelFetch (u_bonds, gl_VertexID >> 2).xy;
+  uvec2 bond = texelFetch (u_bonds, qv_listed (gl_VertexID >> 2)).xy;
   int ia = int (bond.x), ib = int (bond.y);
   vec3 a0 = (u_view * vec4 (qv_atom_position (ia), 1.0)).xyz;
   vec3 b0 = (u_view * vec4 (qv_atom_position (ib), 1.0)).xyz;

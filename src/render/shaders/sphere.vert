@@ -18,7 +18,7 @@ flat out vec4 v_half;
 
 void main ()
 {
-  int i = gl_VertexID >> 2;
+  int i = qv_listed (gl_VertexID >> 2);
   vec3 c = (u_view * vec4 (qv_atom_position (i), 1.0)).xyz;
   float r = qv_atom_radius (i);
   vec2 corner = qv_quad_corner4 (gl_VertexID);
