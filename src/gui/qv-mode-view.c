@@ -45,7 +45,7 @@ struct _QvModeView
   guint tick_id;
   guint frames;
 
-  gboolean show_arrows, participation_colouring, orthographic, dark;
+  gboolean show_arrows, show_labels, participation_colouring, orthographic, dark;
   gssize highlight;
 
   double drag_x, drag_y;      /* where the drag began */
@@ -70,6 +70,7 @@ enum {
   PROP_PLAYING,
   PROP_SPEED,
   PROP_SHOW_ARROWS,
+  PROP_SHOW_LABELS,
   PROP_PARTICIPATION_COLOURING,
   PROP_ORTHOGRAPHIC,
   PROP_DARK,
@@ -188,6 +189,7 @@ upload (QvModeView *self)
       QvRenderOptions options = *qv_renderer_get_options (self->renderer);
       const double largest = largest_displacement (self);
       options.arrows = self->show_arrows;
+      options.labels = self->show_labels;
       if (largest > 0.0)
         {
           options.arrow_scale = (float) (ARROW_LONGEST / largest);
@@ -705,6 +707,7 @@ qv_mode_view_get_property (GObject *object, guint prop_id, GValue *value, GParam
     case PROP_PLAYING: g_value_set_boolean (value, self->playing); break;
     case PROP_SPEED: g_value_set_double (value, self->speed); break;
     case PROP_SHOW_ARROWS: g_value_set_boolean (value, self->show_arrows); break;
+    case PROP_SHOW_LABELS: g_value_set_boolean (value, self->show_labels); break;
     case PROP_PARTICIPATION_COLOURING: g_value_set_boolean (value, self->participation_colouring); break;
     case PROP_ORTHOGRAPHIC: g_value_set_boolean (value, self->orthographic); break;
     case PROP_DARK: g_value_set_boolean (value, self->dark); break;
@@ -735,6 +738,7 @@ qv_mode_view_set_property (GObject *object, guint prop_id, const GValue *value, 
       g_object_notify_by_pspec (object, pspec);
       break;
     case PROP_SHOW_ARROWS: set_flag (self, &self->show_arrows, g_value_get_boolean (value), pspec); break;
+    case PROP_SHOW_LABELS: set_flag (self, &self->show_labels, g_value_get_boolean (value), pspec); break;
     case PROP_PARTICIPATION_COLOURING:
       set_flag (self, &self->participation_colouring, g_value_get_boolean (value), pspec);
       break;
@@ -783,6 +787,7 @@ qv_mode_view_class_init (QvModeViewClass *klass)
   props[PROP_PLAYING] = g_param_spec_boolean ("playing", NULL, NULL, TRUE, flags);
   props[PROP_SPEED] = g_param_spec_double ("speed", NULL, NULL, 0.0, 10.0, 0.6, flags);
   props[PROP_SHOW_ARROWS] = g_param_spec_boolean ("show-arrows", NULL, NULL, TRUE, flags);
+  props[PROP_SHOW_LABELS] = g_param_spec_boolean ("show-labels", NULL, NULL, FALSE, flags);
   props[PROP_PARTICIPATION_COLOURING] = g_param_spec_boolean ("participation-colouring", NULL, NULL, FALSE, flags);
   props[PROP_ORTHOGRAPHIC] = g_param_spec_boolean ("orthographic", NULL, NULL, FALSE, flags);
   props[PROP_DARK] = g_param_spec_boolean ("dark", NULL, NULL, FALSE, flags);

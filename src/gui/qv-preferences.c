@@ -11,6 +11,7 @@ struct _QvPreferences
   guint default_level;
   QvFrequencyUnit wavenumber_unit;
   gboolean show_arrows;
+  gboolean show_labels;
   gboolean participation_colouring;
   gboolean orthographic;
   double speed;
@@ -58,6 +59,7 @@ enum {
   PROP_DEFAULT_LEVEL,
   PROP_WAVENUMBER_UNIT,
   PROP_SHOW_ARROWS,
+  PROP_SHOW_LABELS,
   PROP_PARTICIPATION_COLOURING,
   PROP_ORTHOGRAPHIC,
   PROP_SPEED,
@@ -80,6 +82,7 @@ qv_preferences_get_property (GObject *object, guint prop_id, GValue *value, GPar
     case PROP_DEFAULT_LEVEL: g_value_set_uint (value, self->default_level); break;
     case PROP_WAVENUMBER_UNIT: g_value_set_enum (value, self->wavenumber_unit); break;
     case PROP_SHOW_ARROWS: g_value_set_boolean (value, self->show_arrows); break;
+    case PROP_SHOW_LABELS: g_value_set_boolean (value, self->show_labels); break;
     case PROP_PARTICIPATION_COLOURING: g_value_set_boolean (value, self->participation_colouring); break;
     case PROP_ORTHOGRAPHIC: g_value_set_boolean (value, self->orthographic); break;
     case PROP_SPEED: g_value_set_double (value, self->speed); break;
@@ -111,6 +114,7 @@ qv_preferences_set_property (GObject *object, guint prop_id, const GValue *value
     case PROP_DEFAULT_LEVEL: SET (default_level, g_value_get_uint); break;
     case PROP_WAVENUMBER_UNIT: SET (wavenumber_unit, (QvFrequencyUnit) g_value_get_enum); break;
     case PROP_SHOW_ARROWS: SET (show_arrows, g_value_get_boolean); break;
+    case PROP_SHOW_LABELS: SET (show_labels, g_value_get_boolean); break;
     case PROP_PARTICIPATION_COLOURING: SET (participation_colouring, g_value_get_boolean); break;
     case PROP_ORTHOGRAPHIC: SET (orthographic, g_value_get_boolean); break;
     case PROP_SPEED: SET (speed, g_value_get_double); break;
@@ -145,6 +149,7 @@ qv_preferences_class_init (QvPreferencesClass *klass)
   props[PROP_WAVENUMBER_UNIT] = g_param_spec_enum ("wavenumber-unit", NULL, NULL, QV_TYPE_FREQUENCY_UNIT,
                                                    QV_FREQUENCY_CM1, flags);
   props[PROP_SHOW_ARROWS] = g_param_spec_boolean ("show-arrows", NULL, NULL, TRUE, flags);
+  props[PROP_SHOW_LABELS] = g_param_spec_boolean ("show-labels", NULL, NULL, FALSE, flags);
   props[PROP_PARTICIPATION_COLOURING] = g_param_spec_boolean ("participation-colouring", NULL, NULL, FALSE, flags);
   props[PROP_ORTHOGRAPHIC] = g_param_spec_boolean ("orthographic", NULL, NULL, FALSE, flags);
   props[PROP_SPEED] = g_param_spec_double ("speed", NULL, NULL, 0.1, 3.0, 0.6, flags);

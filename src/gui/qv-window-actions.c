@@ -110,6 +110,7 @@ qv_window_actions_install (QvWindow *self)
   QvPreferences *prefs = qv_preferences_get_default ();
   static const struct { const char *action; const char *property; } toggles[] = {
     { "toggle-arrows", "show-arrows" },
+    { "toggle-labels", "show-labels" },
     { "toggle-participation", "participation-colouring" },
     { "toggle-orthographic", "orthographic" },
   };
@@ -120,7 +121,7 @@ qv_window_actions_install (QvWindow *self)
     { "space", "win.play" },
     { "1", "win.view-along-x" }, { "2", "win.view-along-y" }, { "3", "win.view-along-z" },
     { "0", "win.reset-view" },
-    { "a", "win.toggle-arrows" }, { "c", "win.toggle-participation" }, { "o", "win.toggle-orthographic" },
+    { "a", "win.toggle-arrows" }, { "l", "win.toggle-labels" }, { "c", "win.toggle-participation" }, { "o", "win.toggle-orthographic" },
     { "plus", "win.level-up" }, { "equal", "win.level-up" }, { "KP_Add", "win.level-up" },
     { "minus", "win.level-down" }, { "KP_Subtract", "win.level-down" },
     { "j", "win.next-mode" }, { "k", "win.previous-mode" },

@@ -731,6 +731,7 @@ qv_window_init (QvWindow *self)
 
   /* Preferences drive the view and the list. */
   g_object_bind_property (self->prefs, "show-arrows", self->mode_view, "show-arrows", G_BINDING_SYNC_CREATE);
+  g_object_bind_property (self->prefs, "show-labels", self->mode_view, "show-labels", G_BINDING_SYNC_CREATE);
   g_object_bind_property (self->prefs, "participation-colouring", self->mode_view, "participation-colouring",
                           G_BINDING_SYNC_CREATE);
   g_object_bind_property (self->prefs, "orthographic", self->mode_view, "orthographic", G_BINDING_SYNC_CREATE);
