@@ -82,7 +82,8 @@ void qv_renderer_set_mode (QvRenderer *renderer, const float *re, const float *i
 /* Per-atom participation in [0, 1] for participation colouring (n_atoms);
  * scaled by its largest value for the ramp; NULL clears. */
 void qv_renderer_set_participation (QvRenderer *renderer, const float *participation);
-/* Animation phase φ in radians: one uniform per frame. */
+/* Animation phase φ in radians: one uniform per frame (with
+ * options.occlusion_cull also the small list of what is drawn). */
 void qv_renderer_set_phase (QvRenderer *renderer, float phase);
 void qv_renderer_set_options (QvRenderer *renderer, const QvRenderOptions *options);
 const QvRenderOptions *qv_renderer_get_options (const QvRenderer *renderer);
