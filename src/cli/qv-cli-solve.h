@@ -15,6 +15,8 @@ typedef struct {
   char **isotopes, **mass_overrides;
   gint64 lowest;
   gboolean demo;
+  gboolean all_modes;   /* set before adding the entries: the command needs
+                           every mode, so --lowest is not offered */
 } QvCliSolveArgs;
 
 /* Adds --hessian, --hessian-units, --hessian-layout, --project, --lowest,

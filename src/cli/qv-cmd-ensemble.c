@@ -6,6 +6,7 @@
 #include <stdio.h>
 #include <string.h>
 #include <gio/gio.h>
+#include "qv-cli-solve.h"
 #include "qv-cli.h"
 #include "qv-ensemble.h"
 #include "qv-error.h"
@@ -97,35 +98,13 @@ parse_seed (const char *text, guint64 *seed, GError **error)
   return TRUE;
 }
 
-/* Records the inputs (role, path, SHA-256). */
-static gboolean
-add_inputs (QvManifest *manifest, const QvCliInputOptions *io, GError **error)
-{
-  if (io->demo)
-    {
-      g_autoptr(GBytes) bytes = g_resources_lookup_data (QV_INPUT_DEMO_RESOURCE, 0, NULL);
-      gsize len = 0;
-      const void *data = bytes ? g_bytes_get_data (bytes, &len) : "";
-      qv_manifest_add_input_data (manifest, "demo", "demo", data, len);
-      return TRUE;
-    }
-  if (!qv_manifest_add_input_file (manifest, qv_input_is_bundle (io->geometry) ? "bundle" : "geometry",
-                                   io->geometry, error))
-    return FALSE;
-  if (io->hessian && !qv_manifest_add_input_file (manifest, "hessian", io->hessian, error))
-    return FALSE;
-  return TRUE;
-}
-
 int
 qv_cmd_ensemble (int argc, char **argv)
 {
   g_autoptr(GOptionContext) context = NULL;
   g_autoptr(GError) error = NULL;
-  QvCliInputOptions io = { 0 };
+  QvCliSolveArgs solve = { 0 };
   g_autoptr(QvInput) input = NULL;
-  QvSolveOptions solve;
-  QvProgress progress = { qv_cli_progress, NULL };
   g_autoptr(QvModeSet) modes = NULL;
   g_autoptr(QvEnsemble) ensemble = NULL;
   g_autoptr(QvManifest) manifest = NULL;
@@ -137,24 +116,15 @@ qv_cmd_ensemble (int argc, char **argv)
   g_autofree double *positions = NULL, *velocities = NULL;
   g_autoptr(GString) single = NULL;
   QvManifestFile *single_entry = NULL;
-  char *projection = NULL, *output = NULL, *hessian = NULL, *units = NULL, *layout = NULL;
-  char *masses = NULL, *seed_text = NULL, *format = NULL;
-  char **isotopes = NULL, **mass_overrides = NULL;
+  char *output = NULL, *seed_text = NULL, *format = NULL;
   gint64 count = 100;
   double temperature = 298.15, min_wavenumber = 0.0;
-  gboolean force = FALSE, demo = FALSE, single_file = FALSE, plain = FALSE;
+  gboolean force = FALSE, single_file = FALSE, plain = FALSE;
   gboolean periodic;
   char seed_buf[32], temp_buf[G_ASCII_DTOSTR_BUF_SIZE];
   int width, status = QV_EXIT_OK;
   gsize n, block;
   GOptionEntry entries[] = {
-    { "hessian", 'H', 0, G_OPTION_ARG_FILENAME, &hessian, "Hessian file: text or NumPy .npy", "FILE" },
-    { "hessian-units", 'u', 0, G_OPTION_ARG_STRING, &units,
-      "Units of the Hessian: eV/A^2, hartree/bohr^2, kcal/mol/A^2, kJ/mol/A^2, mdyn/A, aJ/A^2, N/m", "UNIT" },
-    { "hessian-layout", 0, 0, G_OPTION_ARG_STRING, &layout,
-      "Text layout: auto (default), full, lower, upper", "LAYOUT" },
-    { "project", 'p', 0, G_OPTION_ARG_STRING, &projection,
-      "Rigid-body motion to remove when solving: full (default), translations, none", "WHAT" },
     { "temperature", 'T', 0, G_OPTION_ARG_DOUBLE, &temperature,
       "Temperature in K (default 298.15; 0 samples the zero-point distribution)", "T" },
     { "count", 'n', 0, G_OPTION_ARG_INT64, &count, "Number of samples (default 100)", "N" },
@@ -162,39 +132,39 @@ qv_cmd_ensemble (int argc, char **argv)
       "Seed of the random streams (default: picked and recorded in the manifest)", "SEED" },
     { "min-wavenumber", 0, 0, G_OPTION_ARG_DOUBLE, &min_wavenumber,
       "Leave out real modes below this wavenumber in cm-1 (default 0)", "CM-1" },
-    { "masses", 0, 0, G_OPTION_ARG_STRING, &masses,
-      "isotopic (most abundant isotope, default) or average (standard atomic weights)", "MODEL" },
-    { "isotope", 'i', 0, G_OPTION_ARG_STRING_ARRAY, &isotopes,
-      "Give an atom an isotope, e.g. 3=2 for deuterium on atom 3 (repeatable)", "ATOM=A" },
-    { "mass", 'm', 0, G_OPTION_ARG_STRING_ARRAY, &mass_overrides,
-      "Give an atom a mass in u (repeatable)", "ATOM=MASS" },
     { "format", 'f', 0, G_OPTION_ARG_STRING, &format,
       "extxyz (default: positions and velocities) or xyz (positions only)", "FORMAT" },
     { "output", 'o', 0, G_OPTION_ARG_FILENAME, &output, "Directory to write (new or empty)", "DIR" },
     { "single-file", 0, 0, G_OPTION_ARG_NONE, &single_file,
       "All samples as frames of one file, DIR/ensemble.xyz", NULL },
     { "force", 0, 0, G_OPTION_ARG_NONE, &force, "Write into a non-empty DIR, replacing files", NULL },
-    { "demo", 0, 0, G_OPTION_ARG_NONE, &demo, "Use the built-in demo (invented data) as input", NULL },
     { NULL }
   };
 
   for (int i = 1; i < argc; i++)
     arguments[i - 1] = g_strdup (argv[i]);
-  qv_solve_options_init (&solve);
   g_set_prgname ("quaver ensemble");
   context = g_option_context_new ("GEOMETRY");
   g_option_context_set_summary (context, "Thermal ensemble of structures with velocities.");
   g_option_context_set_description (context, ensemble_description);
   g_option_context_add_main_entries (context, entries, NULL);
+  solve.all_modes = TRUE;
+  qv_cli_solve_add_entries (context, &solve);
   qv_ensemble_options_init (&eo);
   if (!g_option_context_parse (context, &argc, &argv, &error))
     goto fail;
-  if (argc > 2 || (argc == 2 && demo) || (argc < 2 && !demo))
+  if (argc > 2 || (argc == 2 && solve.demo) || (argc < 2 && !solve.demo))
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
                    argc > 2 ? "ensemble takes one GEOMETRY, got %d" :
-                   demo ? "--demo replaces GEOMETRY; give one or the other" :
+                   solve.demo ? "--demo replaces GEOMETRY; give one or the other" :
                    "ensemble needs a GEOMETRY file (or --demo)", argc - 1);
+      goto fail;
+    }
+  if (solve.lowest != 0 || solve.method)
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                   "ensemble samples every vibration: it takes no --lowest or --lowest-method");
       goto fail;
     }
   if (output == NULL)
@@ -218,8 +188,6 @@ qv_cmd_ensemble (int argc, char **argv)
           goto fail;
         }
     }
-  if (projection && !qv_projection_parse (projection, &solve.projection, &error))
-    goto fail;
   eo.temperature = temperature;
   eo.min_wavenumber = min_wavenumber;
   if (seed_text)
@@ -231,26 +199,9 @@ qv_cmd_ensemble (int argc, char **argv)
     /* Only the choice of a seed is random; the streams are qv-random's. */
     eo.seed = (((guint64) g_random_int () << 32) | g_random_int ()) % SEED_LIMIT;
 
-  io.geometry = argc == 2 ? argv[1] : NULL;
-  io.demo = demo;
-  io.hessian = hessian;
-  io.hessian_units = units;
-  io.hessian_layout = layout;
-  io.masses = masses;
-  io.isotopes = isotopes;
-  io.mass_overrides = mass_overrides;
-  io.all_modes = TRUE;
-  input = qv_cli_input_load (&io, &error);
-  if (input == NULL)
+  modes = qv_cli_solve (&solve, argc == 2 ? argv[1] : NULL, &input, &error);
+  if (modes == NULL)
     goto fail;
-  if (input->hessian)
-    {
-      modes = qv_solve (input->structure, g_steal_pointer (&input->hessian), &solve, &progress, &error);
-      if (modes == NULL)
-        goto fail;
-    }
-  else
-    modes = g_steal_pointer (&input->modes);
 
   ensemble = qv_ensemble_new (input->structure, modes, &eo, &error);
   if (ensemble == NULL)
@@ -268,7 +219,7 @@ qv_cmd_ensemble (int argc, char **argv)
   manifest = qv_manifest_new ("ensemble");
   for (char **a = arguments; *a; a++)
     qv_manifest_add_argument (manifest, *a);
-  if (!add_inputs (manifest, &io, &error))
+  if (!qv_cli_solve_hash_inputs (&solve, argc == 2 ? argv[1] : NULL, input, manifest, &error))
     goto fail;
   manifest->n_atoms = input->structure->n_atoms;
   manifest->formula = qv_structure_formula (input->structure);
@@ -277,7 +228,7 @@ qv_cmd_ensemble (int argc, char **argv)
   qv_manifest_set_integer (manifest->options, "count", count);
   qv_manifest_set_integer (manifest->options, "seed", (gint64) eo.seed);
   qv_manifest_set_number (manifest->options, "min_wavenumber", min_wavenumber);
-  qv_manifest_set_string (manifest->options, "project", qv_projection_name (solve.projection));
+  qv_manifest_set_string (manifest->options, "project", qv_projection_name (modes->projection));
   qv_manifest_set_boolean (manifest->options, "single_file", single_file);
   qv_manifest_set_string (manifest->options, "format", plain ? "xyz" : "extxyz");
   qv_manifest_set_string (manifest->parameters, "sampling", "harmonic Wigner");
@@ -403,8 +354,7 @@ qv_cmd_ensemble (int argc, char **argv)
 fail:
   status = qv_cli_fail ("ensemble", error);
 out:
-  g_free (projection); g_free (output); g_free (hessian); g_free (units); g_free (layout);
-  g_free (masses); g_free (seed_text); g_free (format);
-  g_strfreev (isotopes); g_strfreev (mass_overrides);
+  g_free (output); g_free (seed_text); g_free (format);
+  qv_cli_solve_args_clear (&solve);
   return status;
 }
