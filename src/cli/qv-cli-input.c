@@ -6,6 +6,7 @@
 #include <unistd.h>
 #include <gio/gio.h>
 #include "qv-cli.h"
+#include "qv-output.h"
 #include "qv-error.h"
 
 int
@@ -147,6 +148,22 @@ qv_cli_input_load (const QvCliInputOptions *o, GError **error)
   if (!apply_masses (input, o, error))
     return NULL;
   return g_steal_pointer (&input);
+}
+
+int
+qv_cli_emit (const char *command, const char *path, const char *text, gboolean force)
+{
+  g_autoptr(GError) error = NULL;
+
+  if (path)
+    return qv_output_write (path, text, strlen (text), force, &error) ? QV_EXIT_OK
+                                                                       : qv_cli_fail (command, error);
+  if (fputs (text, stdout) < 0 || fflush (stdout) != 0)
+    {
+      g_printerr ("quaver: cannot write to standard output\n");
+      return QV_EXIT_WRITE;
+    }
+  return QV_EXIT_OK;
 }
 
 gboolean

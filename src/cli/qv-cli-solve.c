@@ -110,6 +110,17 @@ qv_cli_solve_hash_inputs (const QvCliSolveArgs *a, const char *geometry, const Q
 }
 
 void
+qv_cli_solve_report (QvModeReport *report, const QvInput *input, const QvModeSet *modes)
+{
+  report->structure = input->structure;
+  report->modes = modes;
+  report->hessian_source = input->hessian_source;
+  report->hessian_units = input->hessian_units;
+  report->layout = input->layout;
+  report->mass_model = input->mass_model;
+}
+
+void
 qv_cli_solve_args_clear (QvCliSolveArgs *a)
 {
   g_free (a->hessian); g_free (a->units); g_free (a->layout); g_free (a->masses);

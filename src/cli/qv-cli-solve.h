@@ -7,6 +7,7 @@
 #include "qv-cli.h"
 #include "qv-manifest.h"
 #include "qv-mode-set.h"
+#include "qv-mode-table.h"
 
 G_BEGIN_DECLS
 
@@ -33,6 +34,9 @@ QvModeSet *qv_cli_solve (QvCliSolveArgs *args, const char *geometry, QvInput **i
  * demo's bytes) into @manifest. */
 gboolean qv_cli_solve_hash_inputs (const QvCliSolveArgs *args, const char *geometry,
                                    const QvInput *input, QvManifest *manifest, GError **error);
+
+/* The mode-table report of what qv_cli_solve read and solved. */
+void qv_cli_solve_report (QvModeReport *report, const QvInput *input, const QvModeSet *modes);
 
 void qv_cli_solve_args_clear (QvCliSolveArgs *args);
 

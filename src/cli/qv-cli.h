@@ -36,6 +36,11 @@ typedef struct {
 
 QvInput *qv_cli_input_load (const QvCliInputOptions *options, GError **error);
 
+/* Writes @text to @path atomically (refusing to replace a file unless
+ * @force), or to standard output when @path is NULL; returns the exit
+ * status, after printing what went wrong. */
+int qv_cli_emit (const char *command, const char *path, const char *text, gboolean force);
+
 /* Progress lines on stderr when it is a terminal. */
 gboolean qv_cli_progress (double fraction, const char *stage, gpointer user_data);
 

@@ -495,20 +495,12 @@ qv_cmd_collect (int argc, char **argv)
       report.layout = QV_HESSIAN_LAYOUT_FULL;
       report.mass_model = QV_MASS_ISOTOPIC;
       document = qv_mode_table_format (&report, table_format);
-      if (fputs (document, stdout) < 0 || fflush (stdout) != 0)
-        {
-          g_printerr ("quaver: cannot write to standard output\n");
-          status = QV_EXIT_WRITE;
-        }
+      status = qv_cli_emit ("collect", NULL, document, FALSE);
     }
   else if (outputs == NULL)
     {
       g_autofree char *text = qv_hessian_format_text (hessian, comment, NULL);
-      if (fputs (text, stdout) < 0 || fflush (stdout) != 0)
-        {
-          g_printerr ("quaver: cannot write to standard output\n");
-          status = QV_EXIT_WRITE;
-        }
+      status = qv_cli_emit ("collect", NULL, text, FALSE);
     }
   goto out;
 

@@ -103,27 +103,12 @@ qv_cmd_modes (int argc, char **argv)
       goto out;
     }
 
-  report.structure = input->structure;
-  report.modes = modes;
+  qv_cli_solve_report (&report, input, modes);
   report.level = (guint) level;
   report.temperature = temperature;
   report.vectors = vectors;
-  report.hessian_source = input->hessian_source;
-  report.hessian_units = input->hessian_units;
-  report.layout = input->layout;
-  report.mass_model = input->mass_model;
   document = qv_mode_table_format (&report, table_format);
-
-  if (output)
-    {
-      if (!qv_output_write (output, document, strlen (document), force, &error))
-        status = qv_cli_fail ("modes", error);
-    }
-  else if (fputs (document, stdout) < 0 || fflush (stdout) != 0)
-    {
-      g_printerr ("quaver: cannot write to standard output\n");
-      status = QV_EXIT_WRITE;
-    }
+  status = qv_cli_emit ("modes", output, document, force);
 
 out:
   g_free (format); g_free (output); g_free (unit);
