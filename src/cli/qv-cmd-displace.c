@@ -6,11 +6,9 @@
 #include <string.h>
 #include "qv-cli-solve.h"
 #include "qv-displacement.h"
-#include "qv-element.h"
 #include "qv-error.h"
-#include "qv-json-writer.h"
+#include "qv-export.h"
 #include "qv-manifest.h"
-#include "qv-output-dir.h"
 #include "qv-xyz.h"
 
 static const char displace_description[] =
@@ -115,157 +113,6 @@ parse_modes (char **mode_args, const char *modes_arg, GArray *out, GError **erro
 }
 
 static void
-append_number (GString *s, double value)
-{
-  char buf[G_ASCII_DTOSTR_BUF_SIZE];
-  g_string_append (s, qv_json_format_double (buf, value == 0.0 ? 0.0 : value));
-}
-
-/* Comma-joined per-mode values for the comment line. */
-typedef enum { F_MODE, F_WAVENUMBER, F_q, F_Q, F_DISP, F_ATOM, F_LEVEL, F_TP } Field;
-
-static char *
-joined (const QvDisplaced *d, const QvModeSet *modes, Field field)
-{
-  GString *s = g_string_new (NULL);
-
-  for (guint i = 0; i < d->n_amplitudes; i++)
-    {
-      const QvAmplitude *a = &d->amplitudes[i];
-      if (i > 0)
-        g_string_append_c (s, ',');
-      switch (field)
-        {
-        case F_MODE: g_string_append_printf (s, "%" G_GSIZE_FORMAT, a->mode + 1); break;
-        case F_WAVENUMBER: append_number (s, qv_mode_set_wavenumber (modes, a->mode)); break;
-        case F_q: append_number (s, a->q); break;
-        case F_Q: append_number (s, a->Q); break;
-        case F_DISP: append_number (s, a->max_displacement); break;
-        case F_ATOM: g_string_append_printf (s, "%" G_GSIZE_FORMAT, a->max_atom + 1); break;
-        case F_LEVEL: g_string_append_printf (s, "%u", a->level); break;
-        case F_TP: append_number (s, a->turning_multiple); break;
-        default: break;
-        }
-    }
-  return g_string_free (s, FALSE);
-}
-
-static gboolean
-all_defined (const QvDisplaced *d)
-{
-  for (guint i = 0; i < d->n_amplitudes; i++)
-    if (!isfinite (d->amplitudes[i].q))
-      return FALSE;
-  return TRUE;
-}
-
-/* The file name of structure @s (one file per structure), or of the
- * single file (@s < 0). */
-static char *
-file_name (const QvDisplacementSet *set, const QvDisplaceRequest *r, gssize s)
-{
-  const gsize m0 = r->modes[0] + 1, m1 = r->modes[1] + 1;
-  const int width = set->n_structures > 100 ? (set->n_structures > 1000 ? 5 : 3) : 2;
-  const char *sign;
-
-  if (s < 0)
-    switch (r->kind)
-      {
-      case QV_DISPLACE_GRID:
-        return g_strdup_printf ("modes%" G_GSIZE_FORMAT "-%" G_GSIZE_FORMAT "-grid.xyz", m0, m1);
-      default:
-        return g_strdup_printf ("mode%" G_GSIZE_FORMAT "-%s.xyz", m0, qv_displace_kind_name (r->kind));
-      }
-  sign = set->structures[s].amplitudes[0].Q < 0 ? "minus" : "plus";
-  switch (r->kind)
-    {
-    case QV_DISPLACE_SCAN:
-      return g_strdup_printf ("mode%" G_GSIZE_FORMAT "-scan-%0*" G_GSSIZE_FORMAT ".xyz", m0, width, s);
-    case QV_DISPLACE_GRID:
-      return g_strdup_printf ("modes%" G_GSIZE_FORMAT "-%" G_GSIZE_FORMAT "-grid-%0*u-%0*u.xyz",
-                              m0, m1, width, (guint) ((gsize) s / r->points),
-                              width, (guint) ((gsize) s % r->points));
-    case QV_DISPLACE_LEVELS:
-      return g_strdup_printf ("mode%" G_GSIZE_FORMAT "-v%u-%s.xyz", m0,
-                              set->structures[s].amplitudes[0].level, sign);
-    case QV_DISPLACE_ESCAPE:
-      return g_strdup_printf ("mode%" G_GSIZE_FORMAT "-escape-%s.xyz", m0, sign);
-    case QV_DISPLACE_PAIR:
-    default:
-      return g_strdup_printf ("mode%" G_GSIZE_FORMAT "-%s.xyz", m0, sign);
-    }
-}
-
-/* The key=value pairs of structure @s's comment line; strings in @keep. */
-static GArray *
-comment_pairs (const QvDisplacementSet *set, const QvModeSet *modes, gsize s, GPtrArray *keep)
-{
-  const QvDisplaced *d = &set->structures[s];
-  GArray *pairs = g_array_new (FALSE, FALSE, sizeof (QvXyzPair));
-  const gboolean defined = all_defined (d);
-#define ADD(k, v) G_STMT_START { char *v_ = (v); QvXyzPair p_ = { (k), v_ }; \
-  g_ptr_array_add (keep, v_); g_array_append_val (pairs, p_); } G_STMT_END
-
-  ADD ("kind", g_strdup (qv_displace_kind_name (set->kind)));
-  ADD ("index", g_strdup_printf ("%" G_GSIZE_FORMAT, s));
-  ADD ("mode", joined (d, modes, F_MODE));
-  ADD ("wavenumber", joined (d, modes, F_WAVENUMBER));
-  if (defined)
-    ADD ("q", joined (d, modes, F_q));
-  ADD ("Q", joined (d, modes, F_Q));
-  ADD ("max_displacement", joined (d, modes, F_DISP));
-  ADD ("max_atom", joined (d, modes, F_ATOM));
-  if (defined)
-    {
-      ADD ("level", joined (d, modes, F_LEVEL));
-      ADD ("turning_point", joined (d, modes, F_TP));
-    }
-  ADD ("units", g_strdup ("Q:u^1/2_A,max_displacement:A,wavenumber:cm^-1"));
-#undef ADD
-  return pairs;
-}
-
-static void
-manifest_frame (QvManifestFrame *frame, const QvDisplacementSet *set, const QvModeSet *modes,
-                gsize s)
-{
-  const QvDisplaced *d = &set->structures[s];
-
-  for (guint i = 0; i < d->n_amplitudes; i++)
-    {
-      const QvAmplitude *a = &d->amplitudes[i];
-      QvManifestAmplitude m = {
-        .mode = (guint) a->mode + 1,
-        .wavenumber = qv_mode_set_wavenumber (modes, a->mode),
-        .q = a->q,
-        .Q = a->Q,
-        .max_displacement = a->max_displacement,
-        .max_atom = (guint) a->max_atom + 1,
-        .level = isfinite (a->turning_multiple) ? (gint) a->level : -1,
-        .turning_multiple = a->turning_multiple,
-      };
-      qv_manifest_frame_add_amplitude (frame, &m);
-    }
-  qv_manifest_set_string (frame->fields, "kind", qv_displace_kind_name (set->kind));
-  qv_manifest_set_integer (frame->fields, "structure", (gint64) s);
-}
-
-/* TRUE when a mass differs from its element's default (an isotope or a
- * typed mass): then the files carry a masses column so they read back with
- * the same masses. */
-static gboolean
-has_custom_masses (const QvStructure *s)
-{
-  for (gsize a = 0; a < s->n_atoms; a++)
-    {
-      const QvElement *e = qv_element_from_z (s->atoms[a].z);
-      if (e == NULL || s->atoms[a].mass != e->isotope_mass)
-        return TRUE;
-    }
-  return FALSE;
-}
-
-static void
 print_row (const char *name, const QvDisplaced *d)
 {
   for (guint i = 0; i < d->n_amplitudes; i++)
@@ -316,25 +163,22 @@ qv_cmd_displace (int argc, char **argv)
   QvCliSolveArgs solve = { 0 };
   g_autoptr(QvInput) input = NULL;
   g_autoptr(QvModeSet) modes = NULL;
-  g_autoptr(QvDisplacementSet) set = NULL;
+  g_autoptr(QvExport) export_ = NULL;
+  const QvDisplacementSet *set = NULL;
   g_autoptr(QvManifest) manifest = NULL;
-  g_autoptr(QvOutputDir) dir = NULL;
   g_autoptr(GArray) mode_list = g_array_new (FALSE, FALSE, sizeof (gsize));
-  g_autoptr(GPtrArray) keep = g_ptr_array_new_with_free_func (g_free);
-  g_autoptr(GArray) frames = g_array_new (FALSE, TRUE, sizeof (QvXyzFrame));
-  g_autoptr(GPtrArray) pair_arrays = g_ptr_array_new_with_free_func ((GDestroyNotify) g_array_unref);
   g_auto(GStrv) original = g_strdupv (argv);
   char **mode_args = NULL, *modes_arg = NULL, *output = NULL, *format = NULL;
   double q = NAN, Q = NAN, angstrom = NAN;
   TurningArg turning = { 1.0, FALSE };
   gint64 level = 0, scan = -1, grid = -1;
   gboolean pair = FALSE, levels = FALSE, escape = FALSE, single = FALSE, force = FALSE;
-  gboolean exact = FALSE, masses_column;
+  gboolean exact = FALSE;
   QvDisplaceRequest request;
+  QvExportFormat xformat;
   QvXyzStyle style = QV_XYZ_EXTENDED;
   const char *geometry = NULL;
   int status = QV_EXIT_OK, n_units, n_kinds;
-  gsize n_written = 0;
   GOptionGroup *group;
   GOptionEntry entries[] = {
     { "mode", 'n', 0, G_OPTION_ARG_STRING_ARRAY, &mode_args,
@@ -543,125 +387,48 @@ qv_cmd_displace (int argc, char **argv)
       goto out;
     }
 
-  set = qv_displace (input->structure, modes, &request, &error);
-  if (set == NULL)
-    {
-      status = qv_cli_fail ("displace", error);
-      goto out;
-    }
-  if (set->note)
-    g_printerr ("quaver: note: %s\n", set->note);
-
   /* the manifest: what was asked and what was read */
   if (!qv_cli_solve_hash_inputs (&solve, geometry, input, manifest, &error))
     {
       status = qv_cli_fail ("displace", error);
       goto out;
     }
-  manifest->n_atoms = input->structure->n_atoms;
-  manifest->formula = qv_structure_formula (input->structure);
-  manifest->periodic = qv_structure_is_periodic (input->structure);
-  qv_manifest_set_string (manifest->options, "kind", qv_displace_kind_name (request.kind));
-  {
-    g_autofree char *list = g_strdup_printf ("%" G_GSIZE_FORMAT, request.modes[0] + 1);
-    if (request.kind == QV_DISPLACE_GRID)
-      {
-        g_free (list);
-        list = g_strdup_printf ("%" G_GSIZE_FORMAT ",%" G_GSIZE_FORMAT, request.modes[0] + 1,
-                                request.modes[1] + 1);
-      }
-    qv_manifest_set_string (manifest->options, "modes", list);
-  }
-  if (isnan (request.value))
-    qv_manifest_set_string (manifest->options, "amplitude", "default");
-  else
-    {
-      qv_manifest_set_string (manifest->options, "amplitude_unit", qv_amplitude_unit_name (request.unit));
-      qv_manifest_set_number (manifest->options, "amplitude", request.value);
-    }
-  qv_manifest_set_integer (manifest->options, "level", request.level);
-  if (request.points)
-    qv_manifest_set_integer (manifest->options, "points", request.points);
-  qv_manifest_set_string (manifest->options, "format", style == QV_XYZ_PLAIN ? "xyz" : "extxyz");
-  qv_manifest_set_boolean (manifest->options, "single_file", single);
-  qv_manifest_set_string (manifest->options, "projection", qv_projection_name (modes->projection));
-  qv_manifest_set_string (manifest->options, "masses",
-                          input->mass_model == QV_MASS_AVERAGE ? "average" : "isotopic");
-  if (set->note)
-    qv_manifest_add_note (manifest, set->note);
-  qv_manifest_add_note (manifest, "Cartesian displacement of atom a: dr_a = Q l_a / sqrt(m_a); "
-                        "q = Q sqrt(omega/hbar); turning_point_multiple = Q / Q_tp(level), "
-                        "Q_tp = sqrt((2 level + 1) hbar/omega)");
-
-  /* frames */
-  masses_column = style == QV_XYZ_EXTENDED && has_custom_masses (input->structure);
-  for (gsize s = 0; s < set->n_structures; s++)
-    {
-      GArray *pairs = comment_pairs (set, modes, s, keep);
-      QvXyzFrame f = {
-        .style = style,
-        .precision = exact ? QV_XYZ_EXACT : QV_XYZ_FIXED,
-        .positions = set->structures[s].positions,
-        .masses = masses_column,
-        .pairs = (const QvXyzPair *) pairs->data,
-        .n_pairs = pairs->len,
-      };
-      g_ptr_array_add (pair_arrays, pairs);
-      g_array_append_val (frames, f);
-    }
-
-  dir = qv_output_dir_open (output, force, &error);
-  if (dir == NULL)
+  qv_export_format_init (&xformat);
+  xformat.style = style;
+  xformat.single_file = single;
+  xformat.exact = exact;
+  export_ = qv_export_new_displace (input->structure, modes, input->mass_model, &request,
+                                    &xformat, g_steal_pointer (&manifest), &error);
+  if (export_ == NULL)
     {
       status = qv_cli_fail ("displace", error);
       goto out;
     }
+  set = qv_export_displacement_set (export_);
+  if (set->note)
+    g_printerr ("quaver: note: %s\n", set->note);
+  if (!qv_export_write (export_, output, force, NULL, &error))
+    {
+      status = qv_cli_fail ("displace", error);
+      goto out;
+    }
+
   printf ("# quaver displace: %" G_GSIZE_FORMAT " structure%s of %s along mode%s %s into %s\n",
           set->n_structures, set->n_structures == 1 ? "" : "s", input->name,
           request.kind == QV_DISPLACE_GRID ? "s" : "",
-          ((QvManifestField *) qv_manifest_get (manifest->options, "modes"))->string, output);
+          ((QvManifestField *) qv_manifest_get (qv_export_manifest (export_)->options, "modes"))->string,
+          output);
   printf ("# %-32s %5s %10s %11s %10s %5s %4s %8s\n", "file", "mode", "q", "Q", "max disp",
           "atom", "v", "Q/Q_tp");
   printf ("# %-32s %5s %10s %11s %10s %5s %4s %8s\n", "", "", "", "u^1/2 A", "A", "", "", "");
-  for (gsize s = 0; s < (single ? 1 : set->n_structures); s++)
+  for (gsize s = 0; s < set->n_structures; s++)
     {
-      g_autofree char *name = file_name (set, &request, single ? -1 : (gssize) s);
-      const QvXyzFrame *first = &g_array_index (frames, QvXyzFrame, s);
-      gsize n_frames = single ? set->n_structures : 1, length;
-      g_autofree char *text = qv_xyz_format (input->structure, first, n_frames, &length);
-      QvManifestFile *file;
-
-      if (!qv_output_dir_write (dir, name, text, length, &error))
-        {
-          status = qv_cli_fail ("displace", error);
-          g_printerr ("quaver: %" G_GSIZE_FORMAT " file%s written before the failure stay in %s; "
-                      "no manifest.json was written, so the export is incomplete\n",
-                      n_written, n_written == 1 ? "" : "s", output);
-          goto out;
-        }
-      n_written++;
-      file = qv_manifest_add_file (manifest, name, style == QV_XYZ_PLAIN ? "xyz" : "extxyz",
-                                   text, length);
-      for (gsize f = 0; f < n_frames; f++)
-        {
-          const gsize index = single ? f : s;
-          manifest_frame (qv_manifest_file_add_frame (file), set, modes, index);
-          print_row (f == 0 ? name : "", &set->structures[index]);
-        }
+      const char *name = qv_export_structure_file (export_, s);
+      const gboolean first = s == 0 || strcmp (name, qv_export_structure_file (export_, s - 1)) != 0;
+      print_row (first ? name : "", &set->structures[s]);
     }
-  {
-    g_autofree char *json = qv_manifest_to_json (manifest);
-    if (!qv_output_dir_write (dir, "manifest.json", json, strlen (json), &error))
-      {
-        status = qv_cli_fail ("displace", error);
-        g_printerr ("quaver: the %" G_GSIZE_FORMAT " structure file%s stay in %s, but without "
-                    "manifest.json the export is incomplete\n", n_written,
-                    n_written == 1 ? "" : "s", output);
-        goto out;
-      }
-  }
-  printf ("# wrote %" G_GSIZE_FORMAT " file%s and manifest.json\n", n_written,
-          n_written == 1 ? "" : "s");
+  printf ("# wrote %" G_GSIZE_FORMAT " file%s and manifest.json\n", qv_export_n_files (export_),
+          qv_export_n_files (export_) == 1 ? "" : "s");
   if (fflush (stdout) != 0)
     status = QV_EXIT_WRITE;
 

@@ -8,7 +8,7 @@
 #include "qv-cli.h"
 #include "qv-error.h"
 #include "qv-manifest.h"
-#include "qv-output-dir.h"
+#include "qv-export.h"
 #include "qv-stencil.h"
 #include "qv-xyz.h"
 
@@ -85,10 +85,10 @@ qv_cmd_stencil (int argc, char **argv)
   g_autoptr(QvStructure) structure = NULL;
   g_autoptr(QvStencil) stencil = NULL;
   g_autoptr(QvManifest) manifest = NULL;
-  g_autoptr(QvOutputDir) dir = NULL;
+  g_autoptr(QvExport) export_ = NULL;
+  QvExportFormat xformat;
   g_auto(GStrv) arguments = g_new0 (char *, argc + 1);
   g_autofree gsize *atoms = NULL;
-  g_autofree double *x = NULL;
   g_autofree char *selection = NULL;
   char *output = NULL, *atoms_text = NULL, *format = NULL;
   double step = QV_STENCIL_DEFAULT_STEP;
@@ -153,97 +153,16 @@ qv_cmd_stencil (int argc, char **argv)
   if (stencil == NULL)
     goto fail;
   selection = qv_stencil_format_atoms (stencil);
-
-  dir = qv_output_dir_open (output, force, &error);
-  if (dir == NULL)
+  qv_export_format_init (&xformat);
+  xformat.style = plain ? QV_XYZ_PLAIN : QV_XYZ_EXTENDED;
+  export_ = qv_export_new_stencil (structure, stencil, &xformat, g_steal_pointer (&manifest), &error);
+  if (export_ == NULL)
     goto fail;
-
-  manifest->n_atoms = structure->n_atoms;
-  manifest->formula = qv_structure_formula (structure);
-  manifest->periodic = qv_structure_is_periodic (structure);
-  qv_manifest_set_number (manifest->options, "step", step);
-  qv_manifest_set_string (manifest->options, "atoms", selection);
-  qv_manifest_set_string (manifest->options, "format", plain ? "xyz" : "extxyz");
-  qv_manifest_set_string (manifest->parameters, "scheme", "central difference, +h and -h per coordinate");
-  qv_manifest_set_number (manifest->parameters, "step", step);
-  qv_manifest_set_string (manifest->parameters, "step_unit", "A");
-  qv_manifest_set_string (manifest->parameters, "atoms", selection);
-  qv_manifest_set_boolean (manifest->parameters, "complete", qv_stencil_is_complete (stencil));
-  qv_manifest_set_integer (manifest->parameters, "displacements", (gint64) stencil->n_displacements);
-  qv_manifest_set_string (manifest->parameters, "reference", "reference.xyz");
-  qv_manifest_set_string (manifest->parameters, "hessian",
-                          "H_ij = -(F_j(+h e_i) - F_j(-h e_i)) / (2h), then (H + H^T)/2");
-  if (!qv_stencil_is_complete (stencil))
-    qv_manifest_add_note (manifest, "only some atoms are displaced: collect assembles the Hessian of "
-                                    "those atoms with all others held fixed (a partial Hessian)");
-
-  /* The reference, with its masses so collect can solve with them. */
-  {
-    QvXyzFrame frame = { .style = QV_XYZ_EXTENDED, .precision = QV_XYZ_EXACT, .masses = TRUE };
-    QvXyzPair pairs[] = { { "stencil", "reference" } };
-    g_autoptr(GString) text = g_string_new (NULL);
-    QvManifestFile *file;
-    QvManifestFrame *mf;
-
-    frame.pairs = pairs;
-    frame.n_pairs = G_N_ELEMENTS (pairs);
-    qv_xyz_append_frame (text, structure, &frame);
-    if (!qv_output_dir_write (dir, "reference.xyz", text->str, text->len, &error))
-      goto fail;
-    file = qv_manifest_add_file (manifest, "reference.xyz", "extxyz", text->str, text->len);
-    mf = qv_manifest_file_add_frame (file);
-    qv_manifest_set_boolean (mf->fields, "reference", TRUE);
-  }
-
-  x = g_new (double, 3 * structure->n_atoms);
-  for (gsize d = 0; d < stencil->n_displacements; d++)
-    {
-      gsize atom;
-      int axis, sign;
-      char dbuf[24], abuf[24], sbuf[G_ASCII_DTOSTR_BUF_SIZE];
-      char axis_buf[2];
-      QvXyzPair pairs[5];
-      QvXyzFrame frame = { .style = plain ? QV_XYZ_PLAIN : QV_XYZ_EXTENDED,
-                           .precision = QV_XYZ_EXACT };
-      g_autoptr(GString) text = g_string_new (NULL);
-      g_autofree char *name = g_strdup_printf ("disp-%04" G_GSIZE_FORMAT ".xyz", d + 1);
-      QvManifestFile *file;
-      QvManifestFrame *mf;
-
-      qv_stencil_displacement (stencil, d, &atom, &axis, &sign);
-      qv_stencil_positions (stencil, structure, d, x);
-      g_snprintf (dbuf, sizeof dbuf, "%" G_GSIZE_FORMAT, d + 1);
-      g_snprintf (abuf, sizeof abuf, "%" G_GSIZE_FORMAT, atom + 1);
-      g_ascii_dtostr (sbuf, sizeof sbuf, sign * step);
-      axis_buf[0] = "xyz"[axis];
-      axis_buf[1] = '\0';
-      pairs[0] = (QvXyzPair) { "stencil", "displacement" };
-      pairs[1] = (QvXyzPair) { "displacement", dbuf };
-      pairs[2] = (QvXyzPair) { "atom", abuf };
-      pairs[3] = (QvXyzPair) { "axis", axis_buf };
-      pairs[4] = (QvXyzPair) { "shift", sbuf };
-      frame.positions = x;
-      frame.pairs = pairs;
-      frame.n_pairs = G_N_ELEMENTS (pairs);
-      qv_xyz_append_frame (text, structure, &frame);
-      if (!qv_output_dir_write (dir, name, text->str, text->len, &error))
-        goto fail;
-      file = qv_manifest_add_file (manifest, name, plain ? "xyz" : "extxyz", text->str, text->len);
-      mf = qv_manifest_file_add_frame (file);
-      qv_manifest_set_integer (mf->fields, "displacement", (gint64) d + 1);
-      qv_manifest_set_integer (mf->fields, "atom", (gint64) atom + 1);
-      qv_manifest_set_string (mf->fields, "axis", axis_buf);
-      qv_manifest_set_integer (mf->fields, "sign", sign);
-      qv_manifest_set_number (mf->fields, "shift", sign * step);
-    }
-  {
-    g_autofree char *json = qv_manifest_to_json (manifest);
-    if (!qv_output_dir_write (dir, "manifest.json", json, strlen (json), &error))
-      goto fail;
-  }
+  if (!qv_export_write (export_, output, force, NULL, &error))
+    goto fail;
   g_printerr ("quaver: wrote %" G_GSIZE_FORMAT " displaced structures (atoms %s, step %g A) "
               "and reference.xyz to %s\n", stencil->n_displacements, selection, step,
-              qv_output_dir_path (dir));
+              qv_export_directory (export_));
   goto out;
 
 fail:
