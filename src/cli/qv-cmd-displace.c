@@ -4,6 +4,7 @@
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
+#include "qv-cli-amplitude.h"
 #include "qv-cli-solve.h"
 #include "qv-displacement.h"
 #include "qv-error.h"
@@ -51,32 +52,6 @@ static const char displace_description[] =
   "\n"
   "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.\n"
   "Harmonic displacements are an approximation: validate them before relying on them.";
-
-typedef struct {
-  double multiple;
-  gboolean given;
-} TurningArg;
-
-static gboolean
-parse_turning (const char *name, const char *value, gpointer data, GError **error)
-{
-  TurningArg *t = data;
-  char *end = NULL;
-
-  t->given = TRUE;
-  t->multiple = 1.0;
-  if (value == NULL)
-    return TRUE;
-  t->multiple = g_ascii_strtod (value, &end);
-  if (end == value || *end != '\0' || !isfinite (t->multiple) || t->multiple < 0)
-    {
-      g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
-                   "--turning-point takes a multiple of the turning point such as 1 or 0.5, got '%s'",
-                   value);
-      return FALSE;
-    }
-  return TRUE;
-}
 
 /* "7", "7,8" or several --mode options: 1-based numbers into @out. */
 static gboolean
@@ -169,9 +144,8 @@ qv_cmd_displace (int argc, char **argv)
   g_autoptr(GArray) mode_list = g_array_new (FALSE, FALSE, sizeof (gsize));
   g_auto(GStrv) original = g_strdupv (argv);
   char **mode_args = NULL, *modes_arg = NULL, *output = NULL, *format = NULL;
-  double q = NAN, Q = NAN, angstrom = NAN;
-  TurningArg turning = { 1.0, FALSE };
-  gint64 level = 0, scan = -1, grid = -1;
+  QvCliAmplitude amp;
+  gint64 scan = -1, grid = -1;
   gboolean pair = FALSE, levels = FALSE, escape = FALSE, single = FALSE, force = FALSE;
   gboolean exact = FALSE;
   QvDisplaceRequest request;
@@ -184,14 +158,6 @@ qv_cmd_displace (int argc, char **argv)
     { "mode", 'n', 0, G_OPTION_ARG_STRING_ARRAY, &mode_args,
       "Mode to displace along, numbered from 1 as in 'quaver modes' (twice for --grid)", "N" },
     { "modes", 0, 0, G_OPTION_ARG_STRING, &modes_arg, "Two modes for --grid, e.g. 7,8", "N,M" },
-    { "q", 0, 0, G_OPTION_ARG_DOUBLE, &q, "Amplitude as dimensionless q = Q sqrt(omega/hbar)", "A" },
-    { "Q", 0, 0, G_OPTION_ARG_DOUBLE, &Q, "Amplitude as mass-weighted Q in u^1/2 A", "A" },
-    { "max-displacement", 'd', 0, G_OPTION_ARG_DOUBLE, &angstrom,
-      "Amplitude as the largest atomic displacement in A", "A" },
-    { "turning-point", 't', G_OPTION_FLAG_OPTIONAL_ARG, G_OPTION_ARG_CALLBACK, (gpointer) parse_turning,
-      "Amplitude as M turning points of level v (M = 1 if left out; write --turning-point=M)", "M" },
-    { "level", 'v', 0, G_OPTION_ARG_INT64, &level,
-      "Vibrational level v of the turning point (default 0; with --levels the highest)", "V" },
     { "pair", 0, 0, G_OPTION_ARG_NONE, &pair, "Two structures, -A and +A (the default)", NULL },
     { "scan", 0, 0, G_OPTION_ARG_INT64, &scan, "N points from -A to +A, N odd so 0 is one", "N" },
     { "grid", 0, 0, G_OPTION_ARG_INT64, &grid, "N x N points over two modes, each -A to +A, N odd", "N" },
@@ -211,7 +177,8 @@ qv_cmd_displace (int argc, char **argv)
   g_set_prgname ("quaver displace");
   context = g_option_context_new ("GEOMETRY -o DIR");
   g_option_context_set_description (context, displace_description);
-  group = g_option_group_new ("displace", "", "", &turning, NULL);
+  group = qv_cli_amplitude_group ("displace", &amp, "Vibrational level v of the turning point "
+                                  "(default 0; with --levels the highest)");
   g_option_group_add_entries (group, entries);
   g_option_context_set_main_group (context, group);
   qv_cli_solve_add_entries (context, &solve);
@@ -226,7 +193,7 @@ qv_cmd_displace (int argc, char **argv)
   for (char **p = original + 1; *p; p++)
     qv_manifest_add_argument (manifest, *p);
 
-  if (argc == 3 && turning.given && !solve.demo && g_ascii_strtod (argv[2], NULL) != 0.0)
+  if (argc == 3 && amp.turning && !solve.demo && g_ascii_strtod (argv[2], NULL) != 0.0)
     {
       status = usage (&error, "'%s' after --turning-point is taken as a file; write "
                       "--turning-point=%s", argv[2], argv[2]);
@@ -261,7 +228,7 @@ qv_cmd_displace (int argc, char **argv)
       goto out;
     }
 
-  n_units = !isnan (q) + !isnan (Q) + !isnan (angstrom) + turning.given;
+  n_units = !isnan (amp.q) + !isnan (amp.Q) + !isnan (amp.angstrom) + amp.turning;
   n_kinds = pair + (scan >= 0) + (grid >= 0) + levels + escape;
   if (n_units > 1)
     {
@@ -275,7 +242,7 @@ qv_cmd_displace (int argc, char **argv)
                       "or --escape");
       goto out;
     }
-  if (level < 0 || level > 1000)
+  if (amp.level < 0 || amp.level > 1000)
     {
       status = usage (&error, "--level must be a whole number from 0 to 1000");
       goto out;
@@ -284,7 +251,7 @@ qv_cmd_displace (int argc, char **argv)
   qv_displace_request_init (&request);
   request.kind = scan >= 0 ? QV_DISPLACE_SCAN : grid >= 0 ? QV_DISPLACE_GRID
                  : levels ? QV_DISPLACE_LEVELS : escape ? QV_DISPLACE_ESCAPE : QV_DISPLACE_PAIR;
-  request.level = (guint) level;
+  request.level = (guint) amp.level;
   if (scan >= 0 || grid >= 0)
     {
       gint64 n = scan >= 0 ? scan : grid;
@@ -330,20 +297,20 @@ qv_cmd_displace (int argc, char **argv)
   request.modes[0] = g_array_index (mode_list, gsize, 0);
   if (mode_list->len > 1)
     request.modes[1] = g_array_index (mode_list, gsize, 1);
-  if (!isnan (q))
-    request.unit = QV_AMPLITUDE_DIMENSIONLESS, request.value = q;
-  else if (!isnan (Q))
-    request.unit = QV_AMPLITUDE_MASS_WEIGHTED, request.value = Q;
-  else if (!isnan (angstrom))
-    request.unit = QV_AMPLITUDE_ANGSTROM, request.value = angstrom;
-  else if (turning.given)
-    request.unit = QV_AMPLITUDE_TURNING_POINT, request.value = turning.multiple;
+  if (!isnan (amp.q))
+    request.unit = QV_AMPLITUDE_DIMENSIONLESS, request.value = amp.q;
+  else if (!isnan (amp.Q))
+    request.unit = QV_AMPLITUDE_MASS_WEIGHTED, request.value = amp.Q;
+  else if (!isnan (amp.angstrom))
+    request.unit = QV_AMPLITUDE_ANGSTROM, request.value = amp.angstrom;
+  else if (amp.turning)
+    request.unit = QV_AMPLITUDE_TURNING_POINT, request.value = amp.multiple;
   if (!isnan (request.value) && !(request.value >= 0 && isfinite (request.value)))
     {
       status = usage (&error, "the amplitude must be 0 or more: the structures go to both signs");
       goto out;
     }
-  if (request.kind == QV_DISPLACE_LEVELS && n_units && !turning.given)
+  if (request.kind == QV_DISPLACE_LEVELS && n_units && !amp.turning)
     {
       status = usage (&error, "--levels puts the structures at the turning points; the only "
                       "amplitude it takes is --turning-point=M (a multiple of them)");
@@ -360,13 +327,13 @@ qv_cmd_displace (int argc, char **argv)
     {
       const gsize k = g_array_index (mode_list, gsize, i);
       if (k < modes->n_modes && qv_mode_set_is_imaginary (modes, k)
-          && (!isnan (q) || turning.given))
+          && (!isnan (amp.q) || amp.turning))
         {
           status = usage (&error, "mode %" G_GSIZE_FORMAT " is imaginary (%.1fi cm^-1): it has no "
                           "turning point, so %s does not apply; give the amplitude with --Q "
                           "(u^1/2 A) or --max-displacement (A)%s", k + 1,
                           fabs (qv_mode_set_wavenumber (modes, k)),
-                          !isnan (q) ? "--q" : "--turning-point",
+                          !isnan (amp.q) ? "--q" : "--turning-point",
                           escape ? "" : ", or use --escape");
           goto out;
         }

@@ -15,6 +15,15 @@
 
 G_BEGIN_DECLS
 
+/* The longest arrow of a mode, Å, whatever the amplitude, and the share of
+ * the largest displacement below which an atom gets no arrow (presentation
+ * only; the app's view uses the same). */
+#define QV_PICTURE_ARROW_LONGEST 1.4
+#define QV_PICTURE_ARROW_MIN_SHARE 0.05
+/* Largest side of a picture (and of its supersampled drawing), pixels. */
+#define QV_PICTURE_MAX_SIDE 8192
+#define QV_PICTURE_MAX_FRAMES 1000
+
 typedef struct {
   const QvStructure *structure;
   const QvModeSet *modes;      /* NULL: the structure at rest, no arrows */
@@ -32,8 +41,9 @@ typedef struct {
   guint n_frames;              /* animation: frames of one period (≥ 2) */
 } QvPictureRequest;
 
-/* Defaults: 1200 × 900, supersample 2, phase π/2 (at rest, with arrows),
- * 1 Å… the camera fitted to the structure by qv_picture_fit_camera. */
+/* Defaults: 1200 × 900, supersample 2, edge antialiasing, bonds, arrows and
+ * cell, phase π/2 (at rest, with arrows), 0.5 Å, 30 frames, the camera along
+ * its initial axis fitted by qv_picture_fit_camera. */
 void qv_picture_request_init (QvPictureRequest *request, const QvStructure *structure);
 /* Fits request->camera to the structure and its motion (every atom at both
  * extremes stays in view), keeping the orientation and projection. */
@@ -50,7 +60,10 @@ guint8 **qv_picture_render_frames (const QvPictureRequest *request,
 /* The SVG document of the same view at request->phase (newly allocated,
  * *@length bytes). */
 char *qv_picture_svg (const QvPictureRequest *request, gsize *length, GError **error);
-/* The positions (3N Å) of frame @k of n_frames, for a multi-frame XYZ. */
+/* The positions (3N Å) of frame @k of n_frames (phase 2πk/n_frames), for a
+ * multi-frame XYZ; and at any phase. */
 void qv_picture_frame_positions (const QvPictureRequest *request, guint k, double *positions);
+void qv_picture_frame_positions_at (const QvPictureRequest *request, double phase,
+                                    double *positions);
 
 G_END_DECLS

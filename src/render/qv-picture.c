@@ -1,0 +1,289 @@
+/* qv-picture.c — pictures and animations of a mode, offscreen.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <math.h>
+#include <string.h>
+#include "qv-error.h"
+#include "qv-offscreen.h"
+#include "qv-picture.h"
+
+void
+qv_picture_request_init (QvPictureRequest *r, const QvStructure *structure)
+{
+  memset (r, 0, sizeof *r);
+  r->structure = structure;
+  r->max_displacement = 0.5;
+  qv_camera_init (&r->camera);
+  qv_render_options_init (&r->options);
+  r->options.arrows = TRUE;
+  r->options.bonds = TRUE;
+  r->options.cell = TRUE;
+  r->options.antialias = QV_ANTIALIAS_EDGES;
+  r->width = 1200;
+  r->height = 900;
+  r->supersample = 2;
+  r->phase = G_PI / 2;
+  r->n_frames = 30;
+  qv_picture_fit_camera (r);
+}
+
+/* Å per unit Q of every atom (3N floats) and the Q that moves the atom
+ * that moves most by max_displacement; NULL without a mode. */
+static float *
+mode_field (const QvPictureRequest *r, double *Q, double *largest)
+{
+  const gsize n = r->structure->n_atoms;
+  g_autofree double *d = NULL;
+  float *f;
+  double best = 0.0;
+
+  *Q = 0.0;
+  *largest = 0.0;
+  if (r->modes == NULL || r->mode >= r->modes->n_modes || r->modes->n_atoms != n)
+    return NULL;
+  d = g_new (double, 3 * n);
+  qv_mode_set_cartesian (r->modes, r->mode, d);
+  f = g_new (float, 3 * n);
+  for (gsize i = 0; i < 3 * n; i++)
+    f[i] = (float) d[i];
+  for (gsize a = 0; a < n; a++)
+    best = MAX (best, d[3 * a] * d[3 * a] + d[3 * a + 1] * d[3 * a + 1] + d[3 * a + 2] * d[3 * a + 2]);
+  if (best > 0.0)
+    {
+      *Q = fabs (r->max_displacement) / sqrt (best);
+      *largest = fabs (r->max_displacement);
+    }
+  return f;
+}
+
+void
+qv_picture_frame_positions_at (const QvPictureRequest *r, double phase, double *positions)
+{
+  const gsize n = r->structure->n_atoms;
+  double Q, largest;
+  g_autofree float *f = mode_field (r, &Q, &largest);
+  const double c = cos (phase);
+
+  for (gsize a = 0; a < n; a++)
+    for (int k = 0; k < 3; k++)
+      positions[3 * a + k] = r->structure->atoms[a].position[k]
+                             + (f ? Q * c * (double) f[3 * a + k] : 0.0);
+}
+
+void
+qv_picture_frame_positions (const QvPictureRequest *r, guint k, double *positions)
+{
+  const guint n = MAX (r->n_frames, 1u);
+  qv_picture_frame_positions_at (r, 2.0 * G_PI * (double) k / (double) n, positions);
+}
+
+void
+qv_picture_fit_camera (QvPictureRequest *r)
+{
+  const gsize n = r->structure ? r->structure->n_atoms : 0;
+  g_autofree double *plus = g_new (double, 3 * MAX (n, 1));
+  g_autofree double *minus = g_new (double, 3 * MAX (n, 1));
+  mat4 view;
+  vec3 lo = { 0, 0, 0 }, hi = { 0, 0, 0 };
+  float pad = 0.0f, half_h, half_w, aspect, t;
+  gboolean first = TRUE;
+
+  qv_camera_set_viewport (&r->camera, MAX (r->width, 1), MAX (r->height, 1));
+  if (n == 0)
+    return;
+  qv_picture_frame_positions_at (r, 0.0, plus);
+  qv_picture_frame_positions_at (r, G_PI, minus);
+  for (gsize a = 0; a < n; a++)
+    pad = MAX (pad, qv_style_element (r->structure->atoms[a].z)->radius * r->options.atom_scale);
+  /* Arrows reach QV_PICTURE_ARROW_LONGEST beyond an atom at most. */
+  if (r->options.arrows && r->modes)
+    pad += QV_PICTURE_ARROW_LONGEST * 0.6f;
+  pad += 0.3f;
+
+  /* A box in view space around every atom at both extremes: a tighter
+   * frame than the bounding sphere for elongated molecules. */
+  r->camera.target[0] = r->camera.target[1] = r->camera.target[2] = 0.0f;
+  r->camera.distance = 1.0f;
+  qv_camera_view_matrix (&r->camera, view);
+  for (int pass = 0; pass < 2; pass++)
+    for (gsize a = 0; a < n; a++)
+      {
+        const double *p = (pass ? minus : plus) + 3 * a;
+        vec4 w = { (float) p[0], (float) p[1], (float) p[2], 1.0f }, v;
+        glm_mat4_mulv (view, w, v);
+        for (int k = 0; k < 3; k++)
+          {
+            if (first || v[k] < lo[k])
+              lo[k] = v[k];
+            if (first || v[k] > hi[k])
+              hi[k] = v[k];
+          }
+        first = FALSE;
+      }
+  {
+    /* the box centre back in world space */
+    mat4 inverse;
+    vec4 c = { (lo[0] + hi[0]) / 2, (lo[1] + hi[1]) / 2, (lo[2] + hi[2]) / 2, 1.0f }, w;
+    glm_mat4_inv (view, inverse);
+    glm_mat4_mulv (inverse, c, w);
+    glm_vec3_copy (w, r->camera.target);
+  }
+  aspect = (float) MAX (r->width, 1) / (float) MAX (r->height, 1);
+  half_w = (hi[0] - lo[0]) / 2 + pad;
+  half_h = (hi[1] - lo[1]) / 2 + pad;
+  half_h = MAX (half_h, half_w / aspect);
+  t = tanf (r->camera.fov_y / 2);
+  /* orthographic: the half-height at the target is distance·tan(fov/2);
+   * perspective: the nearest face of the box must fit as well */
+  r->camera.distance = half_h / t;
+  if (r->camera.projection == QV_CAMERA_PERSPECTIVE)
+    r->camera.distance += (hi[2] - lo[2]) / 2 + pad;
+  r->camera.scene_radius = sqrtf (half_w * half_w + half_h * half_h
+                                  + ((hi[2] - lo[2]) / 2 + pad) * ((hi[2] - lo[2]) / 2 + pad));
+}
+
+typedef struct {
+  QvOffscreen *offscreen;
+  QvRenderer *renderer;
+  QvCamera camera;
+} Scene;
+
+static void
+scene_clear (Scene *s)
+{
+  if (s->renderer)
+    {
+      qv_offscreen_make_current (s->offscreen);
+      qv_renderer_free (s->renderer);
+    }
+  qv_offscreen_free (s->offscreen);
+}
+
+static gboolean
+check_request (const QvPictureRequest *r, GError **error)
+{
+  if (r->structure == NULL || r->structure->n_atoms == 0)
+    {
+      g_set_error_literal (error, QV_ERROR, QV_ERROR_USAGE, "there is no structure to draw");
+      return FALSE;
+    }
+  if (r->width < 16 || r->height < 16 || r->width > QV_PICTURE_MAX_SIDE
+      || r->height > QV_PICTURE_MAX_SIDE)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "a picture must be 16 to %d pixels wide and "
+                   "high, not %d x %d", QV_PICTURE_MAX_SIDE, r->width, r->height);
+      return FALSE;
+    }
+  if (r->supersample < 1 || r->supersample > 4
+      || (gint64) r->width * r->supersample > QV_PICTURE_MAX_SIDE
+      || (gint64) r->height * r->supersample > QV_PICTURE_MAX_SIDE)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "supersampling takes 1 to 4, and the "
+                   "enlarged picture (%d x %d) must stay within %d pixels",
+                   r->width * r->supersample, r->height * r->supersample, QV_PICTURE_MAX_SIDE);
+      return FALSE;
+    }
+  if (!(r->max_displacement >= 0 && isfinite (r->max_displacement)))
+    {
+      g_set_error_literal (error, QV_ERROR, QV_ERROR_USAGE, "the amplitude must be a finite "
+                           "number of angstrom, 0 or more");
+      return FALSE;
+    }
+  return TRUE;
+}
+
+static gboolean
+scene_init (Scene *s, const QvPictureRequest *r, GError **error)
+{
+  double Q, largest;
+  g_autofree float *field = NULL;
+  QvRenderOptions options = r->options;
+  int w, h;
+
+  memset (s, 0, sizeof *s);
+  if (!check_request (r, error))
+    return FALSE;
+  /* 4× MSAA where the GL has it, on top of the supersampling */
+  s->offscreen = qv_offscreen_new (r->width, r->height, 4, r->supersample, error);
+  if (s->offscreen == NULL)
+    return FALSE;
+  s->renderer = qv_renderer_new (error);
+  if (s->renderer == NULL)
+    {
+      scene_clear (s);
+      return FALSE;
+    }
+  qv_renderer_set_structure (s->renderer, r->structure);
+  field = mode_field (r, &Q, &largest);
+  qv_renderer_set_mode (s->renderer, field, NULL, (float) Q);
+  if (largest > 0.0)
+    {
+      options.arrow_scale = (float) (QV_PICTURE_ARROW_LONGEST / largest);
+      options.arrow_threshold = (float) (QV_PICTURE_ARROW_MIN_SHARE * largest);
+    }
+  else
+    options.arrows = FALSE;
+  /* the framebuffer is multisampled already */
+  options.samples = 0;
+  qv_renderer_set_options (s->renderer, &options);
+  qv_offscreen_begin (s->offscreen, &w, &h);
+  s->camera = r->camera;
+  qv_camera_set_viewport (&s->camera, w, h);
+  return TRUE;
+}
+
+static guint8 *
+scene_draw (Scene *s, const QvPictureRequest *r, double phase)
+{
+  guint8 *rgba = g_malloc ((gsize) r->width * (gsize) r->height * 4);
+  int w, h;
+
+  qv_offscreen_make_current (s->offscreen);
+  qv_offscreen_begin (s->offscreen, &w, &h);
+  qv_renderer_set_phase (s->renderer, (float) phase);
+  qv_renderer_draw (s->renderer, &s->camera);
+  qv_offscreen_read (s->offscreen, rgba);
+  return rgba;
+}
+
+guint8 *
+qv_picture_render (const QvPictureRequest *r, GError **error)
+{
+  Scene s;
+  guint8 *rgba;
+
+  if (!scene_init (&s, r, error))
+    return NULL;
+  rgba = scene_draw (&s, r, r->phase);
+  scene_clear (&s);
+  return rgba;
+}
+
+guint8 **
+qv_picture_render_frames (const QvPictureRequest *r, const QvProgress *progress, GError **error)
+{
+  Scene s;
+  const guint n = r->n_frames;
+  guint8 **frames;
+
+  if (n < 2 || n > QV_PICTURE_MAX_FRAMES)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "an animation takes 2 to %d frames, not %u",
+                   QV_PICTURE_MAX_FRAMES, n);
+      return NULL;
+    }
+  if (!scene_init (&s, r, error))
+    return NULL;
+  frames = g_new0 (guint8 *, n + 1);
+  for (guint k = 0; k < n; k++)
+    {
+      frames[k] = scene_draw (&s, r, 2.0 * G_PI * (double) k / (double) n);
+      if (!qv_progress_report (progress, (double) (k + 1) / (double) n, "drawing frames", error))
+        {
+          g_strfreev ((char **) frames);
+          frames = NULL;
+          break;
+        }
+    }
+  scene_clear (&s);
+  return frames;
+}
