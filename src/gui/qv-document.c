@@ -21,6 +21,7 @@ struct _QvDocument
   QvHessian *hessian;       /* eV/Å² as read; never handed to qv_solve */
   QvModeSet *modes;
   QvModeRow *rows;          /* one per mode */
+  QvDocumentSource *source; /* what was read, NULL when built in memory */
 };
 
 G_DEFINE_FINAL_TYPE (QvDocument, qv_document, G_TYPE_OBJECT)
@@ -111,6 +112,7 @@ qv_document_finalize (GObject *object)
   g_clear_pointer (&self->hessian, qv_hessian_free);
   g_clear_pointer (&self->modes, qv_mode_set_free);
   g_free (self->rows);
+  g_clear_pointer (&self->source, qv_document_source_free);
   G_OBJECT_CLASS (qv_document_parent_class)->finalize (object);
 }
 
@@ -330,6 +332,7 @@ load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProg
   doc = document_new (display, d->source->demo ? NULL : d->source->geometry,
                       g_steal_pointer (&input->structure),
                       g_steal_pointer (&input->hessian), modes, NULL);
+  doc->source = qv_document_source_copy (d->source);
   g_task_return_pointer (task, doc, g_object_unref);
 }
 
@@ -466,6 +469,7 @@ qv_document_solve_finish (QvDocument *doc, GAsyncResult *result, GError **error)
 
 const char *qv_document_get_name (QvDocument *doc) { return doc->name; }
 const char *qv_document_get_path (QvDocument *doc) { return doc->path; }
+const QvDocumentSource *qv_document_get_source (QvDocument *doc) { return doc->source; }
 const QvStructure *qv_document_get_structure (QvDocument *doc) { return doc->structure; }
 const QvStructure *qv_document_get_original (QvDocument *doc) { return doc->original; }
 const QvModeSet *qv_document_get_modes (QvDocument *doc) { return doc->modes; }

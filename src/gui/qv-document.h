@@ -62,6 +62,9 @@ const char *qv_document_get_name (QvDocument *doc);
 const QvModeRow *qv_document_get_rows (QvDocument *doc);
 /* The file the document came from, NULL for the demo. */
 const char *qv_document_get_path (QvDocument *doc);
+/* What the document was read from (the demo, a bundle, a geometry and its
+ * Hessian), NULL for one built in memory: exports hash these inputs. */
+const QvDocumentSource *qv_document_get_source (QvDocument *doc);
 const QvStructure *qv_document_get_structure (QvDocument *doc);
 const QvModeSet *qv_document_get_modes (QvDocument *doc);
 /* FALSE for precomputed modes: then masses cannot be changed. */

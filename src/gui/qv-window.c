@@ -6,6 +6,7 @@
 #include <math.h>
 #include "qv-atom-popover.h"
 #include "qv-error.h"
+#include "qv-export-pane.h"
 #include "qv-hessian-dialog.h"
 #include "qv-preferences.h"
 #include "qv-welcome-page.h"
@@ -32,6 +33,7 @@ struct _QvWindow
   QvModePanel *mode_panel;
   QvModeDetail *mode_detail;
   GtkRevealer *export_revealer;
+  QvExportPane *export_pane;
   QvAtomPopover *atom_popover;
 
   QvDocument *document;
@@ -140,6 +142,7 @@ document_changed (QvWindow *self)
   show_selected_mode (self);
   update_title (self);
   qv_window_actions_update (self);
+  qv_export_pane_update (self->export_pane);
 }
 
 void
@@ -154,6 +157,7 @@ qv_window_set_document (QvWindow *self, QvDocument *doc)
       gtk_stack_set_visible_child_name (self->stack, "welcome");
       update_title (self);
       qv_window_actions_update (self);
+      qv_export_pane_update (self->export_pane);
       return;
     }
   self->changed_id = g_signal_connect_swapped (doc, "changed", G_CALLBACK (document_changed), self);
@@ -164,6 +168,7 @@ qv_window_set_document (QvWindow *self, QvDocument *doc)
   update_title (self);
   gtk_stack_set_visible_child_name (self->stack, "document");
   qv_window_actions_update (self);
+  qv_export_pane_update (self->export_pane);
   gtk_widget_grab_focus (GTK_WIDGET (self->mode_panel));
 }
 
@@ -695,6 +700,7 @@ qv_window_class_init (QvWindowClass *klass)
   g_type_ensure (QV_TYPE_MOTION_BAR);
   g_type_ensure (QV_TYPE_MODE_PANEL);
   g_type_ensure (QV_TYPE_MODE_DETAIL);
+  g_type_ensure (QV_TYPE_EXPORT_PANE);
   gtk_widget_class_set_template_from_resource (widget_class, "/org/quaverlab/Quaver/gui/qv-window.ui");
   gtk_widget_class_bind_template_child (widget_class, QvWindow, title_label);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, subtitle_label);
@@ -711,6 +717,7 @@ qv_window_class_init (QvWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvWindow, mode_panel);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, mode_detail);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, export_revealer);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, export_pane);
 }
 
 static void
@@ -776,6 +783,7 @@ qv_window_init (QvWindow *self)
   qv_window_actions_install (self);
   qv_window_actions_update (self);
   update_title (self);
+  qv_export_pane_attach (self->export_pane, GTK_WIDGET (self));
 }
 
 QvWindow *
@@ -794,4 +802,10 @@ GtkRevealer *
 qv_window_get_export_revealer (QvWindow *self)
 {
   return self->export_revealer;
+}
+
+QvExportPane *
+qv_window_get_export_pane (QvWindow *self)
+{
+  return self->export_pane;
 }
