@@ -23,6 +23,9 @@ static const Command commands[] = {
   { "ensemble", qv_cmd_ensemble, "thermally sampled structures with velocities (Wigner)" },
   { "stencil", qv_cmd_stencil, "displaced structures for a Hessian from forces" },
   { "collect", qv_cmd_collect, "assemble the Hessian from a stencil's forces" },
+#ifdef QV_HAVE_RENDER
+  { "picture", qv_cmd_picture, "a picture (PNG, SVG) or animation (GIF, XYZ) of a mode" },
+#endif
 };
 
 static void

@@ -5,6 +5,7 @@
 #include "qv-error.h"
 #include "qv-offscreen.h"
 #include "qv-picture.h"
+#include "qv-svg-figure.h"
 
 void
 qv_picture_request_init (QvPictureRequest *r, const QvStructure *structure)
@@ -191,12 +192,30 @@ check_request (const QvPictureRequest *r, GError **error)
   return TRUE;
 }
 
+/* The request's options with the arrows scaled to the mode as the app's
+ * view scales them; the mode field and its Q into @field and @Q. */
+static void
+picture_options (const QvPictureRequest *r, QvRenderOptions *options, float **field, double *Q)
+{
+  double largest;
+
+  *options = r->options;
+  *field = mode_field (r, Q, &largest);
+  if (largest > 0.0)
+    {
+      options->arrow_scale = (float) (QV_PICTURE_ARROW_LONGEST / largest);
+      options->arrow_threshold = (float) (QV_PICTURE_ARROW_MIN_SHARE * largest);
+    }
+  else
+    options->arrows = FALSE;
+}
+
 static gboolean
 scene_init (Scene *s, const QvPictureRequest *r, GError **error)
 {
-  double Q, largest;
+  double Q;
   g_autofree float *field = NULL;
-  QvRenderOptions options = r->options;
+  QvRenderOptions options;
   int w, h;
 
   memset (s, 0, sizeof *s);
@@ -213,15 +232,8 @@ scene_init (Scene *s, const QvPictureRequest *r, GError **error)
       return FALSE;
     }
   qv_renderer_set_structure (s->renderer, r->structure);
-  field = mode_field (r, &Q, &largest);
+  picture_options (r, &options, &field, &Q);
   qv_renderer_set_mode (s->renderer, field, NULL, (float) Q);
-  if (largest > 0.0)
-    {
-      options.arrow_scale = (float) (QV_PICTURE_ARROW_LONGEST / largest);
-      options.arrow_threshold = (float) (QV_PICTURE_ARROW_MIN_SHARE * largest);
-    }
-  else
-    options.arrows = FALSE;
   /* the framebuffer is multisampled already */
   options.samples = 0;
   qv_renderer_set_options (s->renderer, &options);
@@ -286,4 +298,46 @@ qv_picture_render_frames (const QvPictureRequest *r, const QvProgress *progress,
     }
   scene_clear (&s);
   return frames;
+}
+
+char *
+qv_picture_svg (const QvPictureRequest *r, gsize *length, GError **error)
+{
+  const gsize n = r->structure ? r->structure->n_atoms : 0;
+  g_autofree float *field = NULL, *at = NULL, *arrows = NULL, *ghost = NULL;
+  g_autofree double *x = NULL;
+  QvRenderOptions options;
+  QvSvgFigure figure = { 0 };
+  QvCamera camera;
+  double Q;
+
+  if (!check_request (r, error))
+    return NULL;
+  picture_options (r, &options, &field, &Q);
+  x = g_new (double, 3 * n);
+  at = g_new (float, 3 * n);
+  qv_picture_frame_positions_at (r, r->phase, x);
+  for (gsize i = 0; i < 3 * n; i++)
+    at[i] = (float) x[i];
+  if (field && options.arrows)
+    {
+      /* the arrows show the displacement of the + extreme, as in GL */
+      arrows = g_new (float, 3 * n);
+      for (gsize i = 0; i < 3 * n; i++)
+        arrows[i] = (float) Q * field[i];
+    }
+  if (field && options.ghost_alpha > 0.0f)
+    {
+      ghost = g_new (float, 3 * n);
+      qv_picture_frame_positions_at (r, options.ghost_phase, x);
+      for (gsize i = 0; i < 3 * n; i++)
+        ghost[i] = (float) x[i];
+    }
+  figure.structure = r->structure;
+  figure.positions = at;
+  figure.arrows = arrows;
+  figure.ghost_positions = ghost;
+  camera = r->camera;
+  qv_camera_set_viewport (&camera, r->width, r->height);
+  return qv_svg_figure_render (&figure, &camera, &options, length, error);
 }
