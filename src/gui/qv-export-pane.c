@@ -10,11 +10,10 @@
 #include "qv-export-section-table.h"
 #include "qv-input.h"
 #include "qv-preferences.h"
-#ifdef QV_GUI_HAVE_EXPORT
+#include "qv-export.h"
 #include "qv-export-section-displace.h"
 #include "qv-export-section-ensemble.h"
 #include "qv-export-section-stencil.h"
-#endif
 #ifdef QV_GUI_HAVE_PICTURE
 #include "qv-export-section-picture.h"
 #include "qv-export-section-animation.h"
@@ -61,10 +60,9 @@ qv_export_pane_copy_modes (const QvModeSet *modes)
 }
 
 QvManifest *
-qv_export_pane_manifest (QvDocument *document, const char *command, GError **error)
+qv_export_pane_manifest (const QvDocumentSource *source, const char *command, GError **error)
 {
   g_autoptr(QvManifest) manifest = qv_manifest_new (command);
-  const QvDocumentSource *source = qv_document_get_source (document);
 
   if (source && source->demo)
     {
@@ -91,6 +89,82 @@ qv_export_pane_manifest (QvDocument *document, const char *command, GError **err
   /* No command line: the options are in the manifest's own fields. */
   qv_manifest_add_argument (manifest, "(app)");
   return g_steal_pointer (&manifest);
+}
+
+QvExportInputs *
+qv_export_inputs_new (QvDocument *document)
+{
+  QvExportInputs *inputs = g_new0 (QvExportInputs, 1);
+  const QvDocumentSource *source = qv_document_get_source (document);
+
+  inputs->structure = qv_structure_copy (qv_document_get_structure (document));
+  inputs->modes = qv_export_pane_copy_modes (qv_document_get_modes (document));
+  inputs->source = source ? qv_document_source_copy (source) : NULL;
+  return inputs;
+}
+
+void
+qv_export_inputs_free (QvExportInputs *inputs)
+{
+  if (inputs == NULL)
+    return;
+  qv_structure_free (inputs->structure);
+  qv_mode_set_free (inputs->modes);
+  qv_document_source_free (inputs->source);
+  g_free (inputs);
+}
+
+/* On the worker: hash the inputs, plan again from the copies (a plan is
+ * written once), write. */
+gboolean
+qv_export_plan_job_run (gpointer data, const char *directory, gboolean force,
+                        const QvProgress *progress, GPtrArray *written, GError **error)
+{
+  QvExportPlanJob *job = data;
+  QvManifest *manifest = qv_export_pane_manifest (job->inputs->source, job->command, error);
+  g_autoptr(QvExport) plan = NULL;
+  const char *const *names;
+  gsize n = 0;
+  gboolean ok;
+
+  if (manifest == NULL)
+    return FALSE;
+  plan = job->plan (job->inputs, job->options, manifest, error);
+  if (plan == NULL)
+    return FALSE;
+  ok = qv_export_write (plan, directory, force, progress, error);
+  names = qv_export_written (plan, &n);
+  for (gsize i = 0; i < n; i++)
+    g_ptr_array_add (written, g_strdup (names[i]));
+  return ok;
+}
+
+void
+qv_export_plan_job_free (gpointer data)
+{
+  QvExportPlanJob *job = data;
+
+  qv_export_inputs_free (job->inputs);
+  g_free (job->options);
+  g_free (job);
+}
+
+char *
+qv_export_pane_files_text (const QvExport *plan)
+{
+  const gsize n = qv_export_n_files (plan);
+  const gsize structures = qv_export_n_structures (plan);
+  g_autofree char *count = g_strdup_printf (ngettext ("%zu structure", "%zu structures", structures), structures);
+
+  if (n == 1)
+    /* TRANSLATORS: "11 structures in mode7-scan.xyz + manifest.json" */
+    return g_strdup_printf (_("%s in %s + manifest.json"), count, qv_export_file_name (plan, 0));
+  if (n == 2)
+    return g_strdup_printf (_("%s in 2 files: %s, %s + manifest.json"), count, qv_export_file_name (plan, 0),
+                            qv_export_file_name (plan, 1));
+  /* TRANSLATORS: "11 structures in 11 files: mode7-scan-00.xyz … mode7-scan-10.xyz + manifest.json" */
+  return g_strdup_printf (_("%s in %zu files: %s … %s + manifest.json"), count, n, qv_export_file_name (plan, 0),
+                          qv_export_file_name (plan, n - 1));
 }
 
 char *
@@ -295,17 +369,15 @@ qv_export_pane_init (QvExportPane *self)
   add_section (self, "table", _("_Table"), _("The modes in rows, for a paper or a spreadsheet"),
                g_object_new (QV_TYPE_EXPORT_SECTION_TABLE, NULL),
                (SetContextFunc) qv_export_section_table_set_context);
-#ifdef QV_GUI_HAVE_EXPORT
   add_section (self, "displace", _("_Displaced Structures"), _("Geometries along the mode, for the next calculation"),
                g_object_new (QV_TYPE_EXPORT_SECTION_DISPLACE, NULL),
                (SetContextFunc) qv_export_section_displace_set_context);
-  add_section (self, "ensemble", _("_Ensemble"), _("Thermal samples with velocities (all modes)"),
+  add_section (self, "ensemble", _("E_nsemble"), _("Thermal samples with velocities (all modes)"),
                g_object_new (QV_TYPE_EXPORT_SECTION_ENSEMBLE, NULL),
                (SetContextFunc) qv_export_section_ensemble_set_context);
-  add_section (self, "stencil", _("_Stencil"), _("Displacements whose forces give a Hessian"),
+  add_section (self, "stencil", _("Stenc_il"), _("Displacements whose forces give a Hessian"),
                g_object_new (QV_TYPE_EXPORT_SECTION_STENCIL, NULL),
                (SetContextFunc) qv_export_section_stencil_set_context);
-#endif
 #ifdef QV_GUI_HAVE_PICTURE
   add_section (self, "picture", _("_Picture"), _("The view as PNG or SVG"),
                g_object_new (QV_TYPE_EXPORT_SECTION_PICTURE, NULL),

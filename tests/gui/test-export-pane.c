@@ -17,10 +17,10 @@
 #include "qv-export-section-table.h"
 #include "qv-manifest.h"
 #include "qv-window-private.h"
-#ifdef QV_GUI_HAVE_EXPORT
 #include "qv-export-section-displace.h"
+#include "qv-export-section-ensemble.h"
+#include "qv-export-section-stencil.h"
 #include "qv-export-writer.h"
-#endif
 
 /* The demo is ethanol-like, 9 atoms, not linear (data/examples, invented):
  * a non-linear molecule has 3N − 6 vibrations (textbook, e.g. Wilson,
@@ -176,12 +176,215 @@ test_pane_follows_selection (void **state)
   close_window (window);
 }
 
+static gboolean
+writer_idle (gpointer writer)
+{
+  return !qv_export_writer_is_busy (writer);
+}
+
+/* SHA-256 of a file by coreutils' sha256sum (FIPS 180-4), not by the
+ * manifest's own code. */
+static char *
+sha256sum (const char *path)
+{
+  const char *argv[] = { "sha256sum", path, NULL };
+  g_autofree char *out = NULL;
+  int status = 0;
+
+  assert_true (g_spawn_sync (NULL, (char **) argv, NULL, G_SPAWN_SEARCH_PATH, NULL, NULL, &out, NULL,
+                             &status, NULL));
+  assert_true (g_spawn_check_wait_status (status, NULL));
+  return g_strndup (out, 64);
+}
+
+static QvExportSectionDisplace *
+scan_section (QvWindow *window, guint points)
+{
+  QvExportPane *pane = qv_window_get_export_pane (window);
+  QvExportSectionDisplace *displace =
+    QV_EXPORT_SECTION_DISPLACE (qv_export_pane_get_section (pane, "displace", TRUE));
+
+  /* Mode 7 of the demo is real: one turning point at v = 0 by default. */
+  qv_mode_panel_select (qv_window_get_mode_panel (window), 6);
+  qv_export_section_displace_set_kind (displace, QV_DISPLACE_SCAN);
+  qv_export_section_displace_set_points (displace, points);
+  qvg_spin (0.1);
+  return displace;
+}
+
+/* A scan of N points previews N files plus the manifest. */
+static void
+test_scan_preview (void **state)
+{
+  QvWindow *window = demo_window_with_pane ();
+  QvExportSectionDisplace *displace = scan_section (window, 11);
+  const char *preview = qv_export_section_displace_get_preview (displace);
+
+  print_message ("scan preview: %s\n", preview);
+  assert_int_equal (qv_export_section_displace_get_n_files (displace), 11);
+  assert_non_null (strstr (preview, "11 structures in 11 files"));
+  assert_non_null (strstr (preview, "mode7-scan-00.xyz"));
+  assert_non_null (strstr (preview, "mode7-scan-10.xyz"));
+  assert_non_null (strstr (preview, "manifest.json"));
+
+  qv_export_section_displace_set_points (displace, 5);
+  qvg_spin (0.05);
+  assert_int_equal (qv_export_section_displace_get_n_files (displace), 5);
+  assert_non_null (strstr (qv_export_section_displace_get_preview (displace), "mode7-scan-4.xyz")
+                   ? qv_export_section_displace_get_preview (displace)
+                   : strstr (qv_export_section_displace_get_preview (displace), "mode7-scan-04.xyz"));
+
+  /* A bad request is said under the options, not in a dialog: an even
+   * number of points has no undisplaced structure. */
+  qv_export_section_displace_set_points (displace, 4);
+  qvg_spin (0.05);
+  assert_int_equal (qv_export_section_displace_get_n_files (displace), 0);
+  assert_true (strlen (qv_export_section_displace_get_message (displace)) > 0);
+  assert_null (qv_window_get_error_dialog (window));
+  close_window (window);
+}
+
+/* Written from the pane's own path (the writer's job after the folder is
+ * chosen): every file the manifest lists is there with its SHA-256. */
+static void
+test_scan_written_with_manifest (void **state)
+{
+  QvWindow *window = demo_window_with_pane ();
+  QvExportSectionDisplace *displace = scan_section (window, 7);
+  QvExportWriter *writer = qv_export_section_displace_get_writer (displace);
+  g_autofree char *dir = temp_dir ();
+  g_autofree char *manifest_path = g_build_filename (dir, "manifest.json", NULL);
+  g_autoptr(QvManifest) manifest = NULL;
+  g_autoptr(GError) error = NULL;
+  const char *const *written;
+  guint frames = 0;
+
+  qv_export_writer_write_to (writer, dir, FALSE);
+  assert_true (qv_export_writer_is_busy (writer));
+  assert_true (qvg_wait (writer_idle, writer, 60.0));
+  assert_null (qv_export_writer_get_error (writer));
+  written = qv_export_writer_get_written (writer);
+  assert_int_equal (g_strv_length ((char **) written), 7 + 1);
+  assert_string_equal (written[7], "manifest.json");
+
+  manifest = qv_manifest_read_file (manifest_path, &error);
+  assert_non_null (manifest);
+  assert_string_equal (manifest->command, "displace");
+  assert_int_equal (manifest->n_atoms, DEMO_ATOMS);
+  assert_int_equal (manifest->files->len, 7);
+  /* The demo is hashed from the resource the app opened. */
+  assert_int_equal (manifest->inputs->len, 1);
+  assert_string_equal (((QvManifestInput *) manifest->inputs->pdata[0])->role, "demo");
+  for (guint i = 0; i < manifest->files->len; i++)
+    {
+      const QvManifestFile *f = manifest->files->pdata[i];
+      g_autofree char *path = g_build_filename (dir, f->name, NULL);
+      g_autofree char *sum = NULL;
+
+      assert_string_equal (f->name, written[i]);
+      assert_true (g_file_test (path, G_FILE_TEST_IS_REGULAR));
+      sum = sha256sum (path);
+      assert_string_equal (sum, f->sha256);
+      frames += f->frames->len;
+      /* Every structure of the scan is of mode 7 (1-based in the manifest). */
+      for (guint k = 0; k < f->frames->len; k++)
+        {
+          const QvManifestFrame *fr = f->frames->pdata[k];
+          assert_int_equal (fr->amplitudes->len, 1);
+          assert_int_equal (g_array_index (fr->amplitudes, QvManifestAmplitude, 0).mode, 7);
+        }
+    }
+  assert_int_equal (frames, 7);
+
+  /* The folder is no longer empty: a second write is refused unless forced
+   * (the pane asks first), and the first set stays as it was. */
+  qv_export_writer_write_to (writer, dir, FALSE);
+  assert_true (qvg_wait (writer_idle, writer, 60.0));
+  assert_true (g_error_matches (qv_export_writer_get_error (writer), QV_ERROR, QV_ERROR_WRITE));
+  {
+    GtkWindow *dialog = qv_window_get_error_dialog (window);
+    assert_non_null (dialog);
+    gtk_window_destroy (dialog);
+  }
+  assert_true (g_file_test (manifest_path, G_FILE_TEST_IS_REGULAR));
+  qv_export_writer_write_to (writer, dir, TRUE);
+  assert_true (qvg_wait (writer_idle, writer, 60.0));
+  assert_null (qv_export_writer_get_error (writer));
+
+  remove_tree (dir);
+  close_window (window);
+}
+
+/* Cancel while a long scan is written: it stops, says so, and writes no
+ * manifest (so the folder cannot pass for a complete set). */
+static void
+test_cancel_leaves_no_manifest (void **state)
+{
+  QvWindow *window = demo_window_with_pane ();
+  QvExportSectionDisplace *displace = scan_section (window, 201);
+  QvExportWriter *writer = qv_export_section_displace_get_writer (displace);
+  g_autofree char *dir = temp_dir ();
+  g_autofree char *manifest_path = g_build_filename (dir, "manifest.json", NULL);
+  const char *const *written;
+
+  qv_export_writer_write_to (writer, dir, FALSE);
+  qv_export_writer_cancel (writer);
+  assert_true (qvg_wait (writer_idle, writer, 60.0));
+  assert_true (g_error_matches (qv_export_writer_get_error (writer), QV_ERROR, QV_ERROR_CANCELLED));
+  assert_false (g_file_test (manifest_path, G_FILE_TEST_EXISTS));
+  written = qv_export_writer_get_written (writer);
+  print_message ("cancelled after %u of 201 files\n", g_strv_length ((char **) written));
+  assert_true (g_strv_length ((char **) written) < 201);
+  for (guint i = 0; written[i]; i++)
+    assert_false (g_str_equal (written[i], "manifest.json"));
+  /* A cancel is the user's choice, not an error to show. */
+  assert_null (qv_window_get_error_dialog (window));
+
+  remove_tree (dir);
+  close_window (window);
+}
+
+/* Ensemble and stencil previews count their files: N samples; 6 per
+ * selected atom and the reference (central differences, ±h along x, y, z:
+ * common practice). */
+static void
+test_ensemble_and_stencil_preview (void **state)
+{
+  QvWindow *window = demo_window_with_pane ();
+  QvExportPane *pane = qv_window_get_export_pane (window);
+  QvExportSectionEnsemble *ensemble =
+    QV_EXPORT_SECTION_ENSEMBLE (qv_export_pane_get_section (pane, "ensemble", TRUE));
+  QvExportSectionStencil *stencil;
+
+  qv_export_section_ensemble_set_count (ensemble, 25);
+  qv_export_section_ensemble_set_seed (ensemble, 4242);
+  qvg_spin (0.05);
+  assert_int_equal (qv_export_section_ensemble_get_n_files (ensemble), 25);
+  assert_int_equal (qv_export_section_ensemble_get_seed (ensemble), 4242);
+
+  stencil = QV_EXPORT_SECTION_STENCIL (qv_export_pane_get_section (pane, "stencil", TRUE));
+  qvg_spin (0.05);
+  assert_int_equal (qv_export_section_stencil_get_n_files (stencil), 6 * DEMO_ATOMS + 1);
+  qv_export_section_stencil_set_atoms (stencil, "1,3-5");
+  qvg_spin (0.05);
+  assert_int_equal (qv_export_section_stencil_get_n_files (stencil), 6 * 4 + 1);
+  qv_export_section_stencil_set_atoms (stencil, "1,30");
+  qvg_spin (0.05);
+  assert_int_equal (qv_export_section_stencil_get_n_files (stencil), 0);
+  assert_true (strlen (qv_export_section_stencil_get_message (stencil)) > 0);
+  close_window (window);
+}
+
 int
 main (void)
 {
   const struct CMUnitTest tests[] = {
     cmocka_unit_test (test_table_written_and_read_back),
     cmocka_unit_test (test_pane_follows_selection),
+    cmocka_unit_test (test_scan_preview),
+    cmocka_unit_test (test_scan_written_with_manifest),
+    cmocka_unit_test (test_cancel_leaves_no_manifest),
+    cmocka_unit_test (test_ensemble_and_stencil_preview),
   };
 
   qvg_app ();
