@@ -165,7 +165,18 @@ png_text (const QvInput *input, const QvModeSet *modes, gsize k, const QvAmplitu
                                        fabs (a->max_displacement), a->max_atom + 1, fabs (a->Q),
                                        r->phase * 180.0 / G_PI));
   g_ptr_array_add (t, g_strdup ("quaver:orientation"));
-  g_ptr_array_add (t, g_strdup_printf ("%.6f,%.6f,%.6f,%.6f", o[0], o[1], o[2], o[3]));
+  {
+    /* shortest round-trip text of each float, locale-independent */
+    GString *q = g_string_new (NULL);
+    for (int i = 0; i < 4; i++)
+      {
+        char buf[G_ASCII_DTOSTR_BUF_SIZE];
+        g_string_append (q, g_ascii_formatd (buf, sizeof buf, "%.9g", o[i]));
+        if (i < 3)
+          g_string_append_c (q, ',');
+      }
+    g_ptr_array_add (t, g_string_free (q, FALSE));
+  }
   g_ptr_array_add (t, NULL);
   return (char **) g_ptr_array_free (t, FALSE);
 }

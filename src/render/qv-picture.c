@@ -60,14 +60,23 @@ void
 qv_picture_frame_positions_at (const QvPictureRequest *r, double phase, double *positions)
 {
   const gsize n = r->structure->n_atoms;
-  double Q, largest;
-  g_autofree float *f = mode_field (r, &Q, &largest);
   const double c = cos (phase);
+  g_autofree double *d = NULL;
+  double best = 0.0, Q = 0.0;
 
   for (gsize a = 0; a < n; a++)
-    for (int k = 0; k < 3; k++)
-      positions[3 * a + k] = r->structure->atoms[a].position[k]
-                             + (f ? Q * c * (double) f[3 * a + k] : 0.0);
+    memcpy (positions + 3 * a, r->structure->atoms[a].position, 3 * sizeof (double));
+  if (r->modes == NULL || r->mode >= r->modes->n_modes || r->modes->n_atoms != n)
+    return;
+  /* in double, as the core's displacements: these frames are written out */
+  d = g_new (double, 3 * n);
+  qv_mode_set_cartesian (r->modes, r->mode, d);
+  for (gsize a = 0; a < n; a++)
+    best = MAX (best, d[3 * a] * d[3 * a] + d[3 * a + 1] * d[3 * a + 1] + d[3 * a + 2] * d[3 * a + 2]);
+  if (best > 0.0)
+    Q = fabs (r->max_displacement) / sqrt (best);
+  for (gsize i = 0; i < 3 * n; i++)
+    positions[i] += Q * c * d[i];
 }
 
 void
