@@ -232,8 +232,12 @@ qv_offscreen_read (QvOffscreen *offscreen, guint8 *rgba)
   glPixelStorei (GL_PACK_ALIGNMENT, 1);
   glReadPixels (0, 0, dw, dh, GL_RGBA, GL_UNSIGNED_BYTE, offscreen->scratch);
   src = offscreen->scratch;
-  /* GL's first row is the bottom one; box-filter s × s blocks, averaging
-   * premultiplied colour so that edges against transparency stay right. */
+  /* GL's first row is the bottom one; box-filter s × s blocks. The
+   * framebuffer holds premultiplied colour (the renderer's transparent
+   * background: a resolved edge sample is coverage × colour over 0; on an
+   * opaque background alpha is 1 and the two agree): sum it, then divide
+   * by the summed alpha for straight alpha, so that edges against
+   * transparency keep their colour instead of darkening. */
   for (int y = 0; y < offscreen->height; y++)
     {
       guint8 *row = rgba + (gsize) y * offscreen->width * 4;
@@ -245,14 +249,14 @@ qv_offscreen_read (QvOffscreen *offscreen, guint8 *rgba)
               const guint8 *p = src + ((gsize) (dh - 1 - (y * s + j)) * dw + (gsize) x * s) * 4;
               for (int i = 0; i < s; i++, p += 4)
                 {
-                  sum[0] += p[0] * p[3];
-                  sum[1] += p[1] * p[3];
-                  sum[2] += p[2] * p[3];
+                  sum[0] += p[0];
+                  sum[1] += p[1];
+                  sum[2] += p[2];
                   sum[3] += p[3];
                 }
             }
           for (int k = 0; k < 3; k++)
-            row[4 * x + k] = sum[3] ? (guint8) ((sum[k] + sum[3] / 2) / sum[3]) : 0;
+            row[4 * x + k] = sum[3] ? (guint8) MIN ((sum[k] * 255 + sum[3] / 2) / sum[3], 255) : 0;
           row[4 * x + 3] = (guint8) ((sum[3] + (guint) (s * s) / 2) / (guint) (s * s));
         }
     }

@@ -22,7 +22,8 @@ void qv_offscreen_make_current (QvOffscreen *offscreen);
 /* Binds the framebuffer to draw into; its size is width×supersample. */
 void qv_offscreen_begin (QvOffscreen *offscreen, int *draw_width, int *draw_height);
 /* Resolves and downsamples; @rgba receives width × height × 4 bytes, top row
- * first, straight alpha. */
+ * first, straight alpha (the framebuffer is read as premultiplied, which
+ * it is: see QvRenderOptions.transparent). */
 void qv_offscreen_read (QvOffscreen *offscreen, guint8 *rgba);
 /* The GL_RENDERER string, for reports. */
 const char *qv_offscreen_renderer_name (QvOffscreen *offscreen);

@@ -28,11 +28,11 @@
  * depth-tests before shading and skips the covered inside). */
 enum {
   PROG_SPHERE, PROG_CYLINDER, PROG_ARROW, PROG_LINE, PROG_LABEL,
-  PROG_SPHERE_FRINGE, PROG_CYLINDER_FRINGE, PROG_ARROW_FRINGE, N_PROGRAMS
+  PROG_SPHERE_FRINGE, PROG_CYLINDER_FRINGE, PROG_ARROW_FRINGE, PROG_COVER, N_PROGRAMS
 };
 #define FRINGE (PROG_SPHERE_FRINGE - PROG_SPHERE)
 static const char *const program_names[N_PROGRAMS] = {
-  "sphere", "cylinder", "arrow", "line", "label", "sphere", "cylinder", "arrow",
+  "sphere", "cylinder", "arrow", "line", "label", "sphere", "cylinder", "arrow", "cover",
 };
 
 /* Occlusion culling's screen cells, pixels (see qv-occlusion-private.h). */
@@ -44,7 +44,7 @@ static const char *const program_names[N_PROGRAMS] = {
 #define ARROW_HEAD_RADIUS 0.14f
 
 /* Edge treatments, the QV_AA_* of shaders/common.glsl. */
-enum { AA_COVERAGE, AA_SOLID, AA_INNER, AA_FRINGE };
+enum { AA_COVERAGE, AA_SOLID, AA_INNER, AA_FRINGE, AA_MASKED };
 
 /* Mirrors the std140 block Frame in shaders/common.glsl. */
 typedef struct {
@@ -138,6 +138,9 @@ qv_render_options_init (QvRenderOptions *options)
     .antialias = QV_ANTIALIAS_NONE,
     .samples = 0,
     .occlusion_cull = FALSE,
+    .transparent = FALSE,
+    .ghost_alpha = 0.0f,
+    .ghost_phase = 0.0f,
   };
 }
 
@@ -227,6 +230,7 @@ qv_renderer_new (GError **error)
     {
       r->programs[p] = qv_shader_program_load_defines (program_names[p],
                                                        p >= PROG_SPHERE_FRINGE
+                                                       && p <= PROG_ARROW_FRINGE
                                                        ? "#define QV_FRINGE 1\n" : NULL,
                                                        error);
       if (r->programs[p] == 0)
@@ -655,6 +659,10 @@ qv_renderer_set_options (QvRenderer *r, const QvRenderOptions *options)
   if (!(r->options.bond_radius > 0.0f))
     r->options.bond_radius = 0.13f;
   r->options.samples = r->options.samples <= 0 ? 0 : r->options.samples <= 2 ? 2 : 4;
+  r->options.ghost_alpha = isfinite (r->options.ghost_alpha)
+                           ? CLAMP (r->options.ghost_alpha, 0.0f, 1.0f) : 0.0f;
+  if (!isfinite (r->options.ghost_phase))
+    r->options.ghost_phase = 0.0f;
   if (old.colouring != r->options.colouring && r->n_atoms > 0)
     upload_colours (r);
   if (old.arrow_threshold != r->options.arrow_threshold)
@@ -844,30 +852,91 @@ cull (QvRenderer *r, const FrameBlock *f)
     }
 }
 
-/* The impostors (spheres, bonds, arrows) with edge treatment @aa. */
+/* The impostors (spheres, bonds and, unless @ghost, arrows) with edge
+ * treatment @aa: this frame's culled lists, or for the ghost (drawn at
+ * another phase, which the lists do not describe) all of them. */
 static void
-draw_impostors (QvRenderer *r, int aa)
+draw_impostor_set (QvRenderer *r, int aa, gboolean ghost)
 {
   int shift = aa == AA_FRINGE ? FRINGE : 0;
 
   glBindVertexArray (r->quad_vao);
   const int kinds[3] = { PROG_SPHERE, PROG_CYLINDER, PROG_ARROW };
-  const gboolean on[3] = { TRUE, r->options.bonds, r->options.arrows };
+  const gboolean on[3] = { TRUE, r->options.bonds, r->options.arrows && !ghost };
+  const gsize all[3] = { r->n_atoms, r->n_bonds, r->n_arrows };
+  const gboolean listed = r->listed && !ghost;
   gsize base = 0;
 
   for (int k = 0; k < 3; k++)
     {
       int p = kinds[k] + shift;
-      gsize count = r->n_listed[k];
+      gsize count = listed ? r->n_listed[k] : all[k];
       if (on[k] && count > 0)
         {
           glUseProgram (r->programs[p]);
           glUniform1i (r->aa_location[p], aa);
-          glUniform1i (r->list_location[p], r->listed ? (GLint) base : -1);
+          glUniform1i (r->list_location[p], listed ? (GLint) base : -1);
           glDrawElements (GL_TRIANGLES, 6 * (GLsizei) count, GL_UNSIGNED_INT, NULL);
         }
-      base += count;
+      base += r->n_listed[k];
     }
+}
+
+static void
+draw_impostors (QvRenderer *r, int aa)
+{
+  draw_impostor_set (r, aa, FALSE);
+}
+
+/* The ghost: atoms and bonds at options.ghost_phase, blended at
+ * options.ghost_alpha over what is drawn. A depth-only pass first leaves
+ * the ghost's nearest surface in the depth buffer wherever it is in front
+ * of the opaque picture; the colour pass then blends only that surface
+ * (equal depth, the same shaders and inputs), so overlapping ghost atoms
+ * and bonds do not stack up, and a ghost behind an opaque atom stays
+ * hidden. Edges: when multisampled the depth pass picks the samples by
+ * alpha-to-coverage and the colour pass, which writes alpha 1, reaches only
+ * those (AA_MASKED: the fragment's alpha is then free for the blend, which
+ * uses the constant ghost alpha); hard otherwise. Leaves @frame (the main
+ * phase) in the uniform block. */
+static void
+draw_ghost (QvRenderer *r, const FrameBlock *frame, gboolean multisampled)
+{
+  FrameBlock g = *frame;
+  const int aa = multisampled ? AA_COVERAGE : AA_SOLID;
+  const float alpha = r->options.ghost_alpha;
+
+  g.phase = r->options.ghost_phase;
+  /* aa for the depth pass; the colour pass below. */
+  g.cos_phase = cosf (g.phase);
+  g.sin_phase = sinf (g.phase);
+  g.highlight = -1;
+  glBindBuffer (GL_UNIFORM_BUFFER, r->ubo);
+  glBufferSubData (GL_UNIFORM_BUFFER, 0, sizeof g, &g);
+
+  if (multisampled)
+    glEnable (GL_SAMPLE_ALPHA_TO_COVERAGE);
+  glColorMask (GL_FALSE, GL_FALSE, GL_FALSE, GL_FALSE);
+  glDepthMask (GL_TRUE);
+  glDepthFunc (GL_LESS);
+  draw_impostor_set (r, aa, TRUE);
+
+  glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, r->options.transparent ? GL_TRUE : GL_FALSE);
+  glDepthMask (GL_FALSE);
+  glDepthFunc (GL_EQUAL);
+  glDisable (GL_SAMPLE_ALPHA_TO_COVERAGE);
+  glEnable (GL_BLEND);
+  glBlendColor (0.0f, 0.0f, 0.0f, alpha);
+  /* Porter–Duff over, the source being colour × alpha (straight): the
+   * result is premultiplied, as the transparent framebuffer holds it. */
+  glBlendFuncSeparate (GL_CONSTANT_ALPHA, GL_ONE_MINUS_CONSTANT_ALPHA,
+                       GL_CONSTANT_ALPHA, GL_ONE_MINUS_CONSTANT_ALPHA);
+  draw_impostor_set (r, multisampled ? AA_MASKED : AA_SOLID, TRUE);
+  glDisable (GL_BLEND);
+  glDepthFunc (GL_LESS);
+  glDepthMask (GL_TRUE);
+
+  glBufferSubData (GL_UNIFORM_BUFFER, 0, sizeof *frame, frame);
 }
 
 void
@@ -883,7 +952,10 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
   if (own_msaa)
     glBindFramebuffer (GL_DRAW_FRAMEBUFFER, r->msaa_fbo);
   glViewport (0, 0, camera->width, camera->height);
-  glClearColor (frame.bg[0], frame.bg[1], frame.bg[2], frame.bg[3]);
+  if (r->options.transparent)
+    glClearColor (0.0f, 0.0f, 0.0f, 0.0f);
+  else
+    glClearColor (frame.bg[0], frame.bg[1], frame.bg[2], frame.bg[3]);
   glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_TRUE);
   glDepthMask (GL_TRUE);
   glClear (GL_COLOR_BUFFER_BIT | GL_DEPTH_BUFFER_BIT);
@@ -912,9 +984,11 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
   glDepthFunc (GL_LESS);
   glDisable (GL_BLEND);
   glDisable (GL_CULL_FACE);
-  /* The background's alpha stays as cleared: edge fragments carry
-   * coverage in alpha, not transparency. */
-  glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_FALSE);
+  /* On an opaque background its alpha stays as cleared: edge fragments
+   * carry coverage in alpha, not transparency. On a transparent one the
+   * coverage is written too (samples: alpha 1 where covered; blended
+   * edges: over, below), so the framebuffer holds premultiplied colour. */
+  glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, r->options.transparent ? GL_TRUE : GL_FALSE);
 
   if (r->options.cell && r->has_cell)
     {
@@ -930,6 +1004,23 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
       glEnable (GL_SAMPLE_ALPHA_TO_COVERAGE);
       draw_impostors (r, AA_COVERAGE);
       glDisable (GL_SAMPLE_ALPHA_TO_COVERAGE);
+      if (r->options.transparent)
+        {
+          /* The covered samples hold the coverage estimate in alpha (which
+           * alpha-to-coverage already spent on choosing them): make them
+           * opaque. GL_SAMPLE_ALPHA_TO_ONE should, but on llvmpipe (Mesa
+           * 22.3) the samples kept the estimate: test-figure measured
+           * fringes 49/255 off with it. */
+          glColorMask (GL_FALSE, GL_FALSE, GL_FALSE, GL_TRUE);
+          glDepthMask (GL_FALSE);
+          glDepthFunc (GL_GREATER);
+          glUseProgram (r->programs[PROG_COVER]);
+          glBindVertexArray (r->quad_vao);
+          glDrawArrays (GL_TRIANGLES, 0, 3);
+          glDepthFunc (GL_LESS);
+          glDepthMask (GL_TRUE);
+          glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_TRUE);
+        }
     }
   else if (r->options.antialias == QV_ANTIALIAS_NONE)
     draw_impostors (r, AA_SOLID);
@@ -940,7 +1031,7 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
        * writing depth: right whatever the drawing order. */
       draw_impostors (r, AA_INNER);
       glEnable (GL_BLEND);
-      glBlendFunc (GL_SRC_ALPHA, GL_ONE_MINUS_SRC_ALPHA);
+      glBlendFuncSeparate (GL_SRC_ALPHA, GL_ONE_MINUS_SRC_ALPHA, GL_ONE, GL_ONE_MINUS_SRC_ALPHA);
       glDepthMask (GL_FALSE);
       draw_impostors (r, AA_FRINGE);
       glDepthMask (GL_TRUE);
@@ -950,7 +1041,7 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
   if (r->options.labels && r->n_label_glyphs > 0)
     {
       glEnable (GL_BLEND);
-      glBlendFunc (GL_SRC_ALPHA, GL_ONE_MINUS_SRC_ALPHA);
+      glBlendFuncSeparate (GL_SRC_ALPHA, GL_ONE_MINUS_SRC_ALPHA, GL_ONE, GL_ONE_MINUS_SRC_ALPHA);
       glDepthMask (GL_FALSE);
       glUseProgram (r->programs[PROG_LABEL]);
       glBindVertexArray (r->label_vao);
@@ -958,6 +1049,10 @@ qv_renderer_draw (QvRenderer *r, const QvCamera *camera)
       glDepthMask (GL_TRUE);
       glDisable (GL_BLEND);
     }
+  /* The ghost after the labels: where it passes in front of an atom it
+   * veils that atom's label too, as it veils the atom. */
+  if (r->options.ghost_alpha > 0.0f)
+    draw_ghost (r, &frame, sample_buffers > 0);
   glColorMask (GL_TRUE, GL_TRUE, GL_TRUE, GL_TRUE);
   glBindVertexArray (0);
   glUseProgram (0);

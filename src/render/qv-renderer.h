@@ -61,6 +61,21 @@ typedef struct {
                             * somewhere, so it costs more than it saves
                             * (docs/performance.md); a win with larger
                             * atom_scale */
+  /* Added for still pictures (`quaver picture`; defaults: off): */
+  gboolean transparent;    /* clear to alpha 0 and write coverage to alpha:
+                            * the framebuffer then holds premultiplied
+                            * colour, which qv_offscreen_read turns into
+                            * straight alpha for a PNG. The background's
+                            * colour still tints labels' halos and depth
+                            * cueing. Default FALSE (opaque background) */
+  float ghost_alpha;       /* > 0: the atoms and bonds drawn a second time
+                            * at ghost_phase, this opaque (0..1), over the
+                            * structure at the renderer's phase: where the
+                            * ghost is in front it is blended once (its
+                            * nearest surface), where behind it stays
+                            * hidden. No arrows, labels or highlight.
+                            * Default 0 (off) */
+  float ghost_phase;       /* radians, default 0 (the + extreme) */
 } QvRenderOptions;
 
 void qv_render_options_init (QvRenderOptions *options);

@@ -106,7 +106,7 @@ void main ()
     }
   if (!qv_aa_keep (alpha))
     discard;
-  frag_colour = vec4 (qv_shade_fast (v_albedo, v_haze, v_half, n), alpha);
+  frag_colour = vec4 (qv_shade_fast (v_albedo, v_haze, v_half, n), qv_aa_alpha (alpha));
 #ifndef QV_FRINGE
   gl_FragDepth = qv_depth (p);
 #endif

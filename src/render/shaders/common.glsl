@@ -33,11 +33,15 @@ layout(std140) uniform Frame {
 // QV_AA_SOLID: a hard edge at alpha 0.5, no blending (no antialiasing);
 // QV_AA_INNER: only fully covered pixels, opaque (first pass of the
 // analytic antialiasing); QV_AA_FRINGE: only partly covered pixels, blended
-// over what the first pass drew, no depth write (its second pass).
+// over what the first pass drew, no depth write (its second pass);
+// QV_AA_MASKED: every fragment of some coverage, written with alpha 1 to
+// the samples an earlier depth-only pass chose (the ghost's colour pass,
+// depth test EQUAL, no alpha-to-coverage).
 const int QV_AA_COVERAGE = 0;
 const int QV_AA_SOLID = 1;
 const int QV_AA_INNER = 2;
 const int QV_AA_FRINGE = 3;
+const int QV_AA_MASKED = 4;
 uniform int u_aa;
 
 #ifdef QV_FRAGMENT
@@ -78,6 +82,16 @@ bool qv_aa_keep (float alpha)
   if (u_aa == QV_AA_FRINGE)
     return alpha > 0.0 && alpha < 0.999;
   return alpha > 0.0;
+}
+
+// The alpha to write for coverage @alpha: the coverage itself where it
+// is blended (QV_AA_FRINGE) or turned into samples (QV_AA_COVERAGE), 1
+// where the edge is hard, the pixel fully covered or the samples chosen
+// already (QV_AA_MASKED). Only a transparent background
+// (QvRenderOptions.transparent) keeps what is written to alpha.
+float qv_aa_alpha (float alpha)
+{
+  return u_aa == QV_AA_COVERAGE || u_aa == QV_AA_FRINGE ? alpha : 1.0;
 }
 
 // Three texels per atom: (rest position, style radius), (Re field, 0),

@@ -59,7 +59,7 @@ void main ()
   if (!qv_aa_keep (alpha))
     discard;
   frag_colour = vec4 (qv_shade_fast (s < 0.5 * len ? v_albedo_a : v_albedo_b, v_haze, v_half, n),
-                      alpha);
+                      qv_aa_alpha (alpha));
 #ifndef QV_FRINGE
   gl_FragDepth = qv_depth (p);
 #endif

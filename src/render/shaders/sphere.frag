@@ -31,7 +31,7 @@ void main ()
   // A rim of the accent colour around the selected atom.
   float rim = smoothstep (0.45, 0.8, 1.0 + dot (n, d));
   c = mix (c, u_accent.rgb, rim * 0.9 * v_rim);
-  frag_colour = vec4 (c, alpha);
+  frag_colour = vec4 (c, qv_aa_alpha (alpha));
 #ifndef QV_FRINGE
   gl_FragDepth = qv_depth (p);
 #endif
