@@ -36,7 +36,8 @@ static const char picture_description[] =
   "horizontal, vertical and viewing axes, in that order; --orientation\n"
   "X,Y,Z,W sets the rotation as a quaternion instead (each PNG records its\n"
   "own, so a picture can be made again). The frame fits the molecule and\n"
-  "its motion; --zoom F enlarges.\n"
+  "its motion; --zoom F enlarges. A bundle's \"view\" (orientation,\n"
+  "projection, zoom, mode) is used when the command line gives none.\n"
   "\n"
   "Examples:\n"
   "  quaver picture --demo --mode 7 -o mode7.png\n"
@@ -288,7 +289,7 @@ qv_cmd_picture (int argc, char **argv)
                            "picture needs -o FILE (.png, .svg, .gif or .xyz)");
       goto fail;
     }
-  if (mode < 1)
+  if (mode < 0)
     {
       g_set_error_literal (&error, QV_ERROR, QV_ERROR_USAGE,
                            "give the mode to draw: --mode N (numbered from 1 as in 'quaver modes')");
@@ -318,6 +319,18 @@ qv_cmd_picture (int argc, char **argv)
     modes = qv_cli_solve (&solve, argc == 2 ? argv[1] : NULL, &input, &error);
     if (modes == NULL)
       goto fail;
+    if (mode == 0)
+      {
+        /* a bundle's saved view may name the mode */
+        if (input->view.mode == 0)
+          {
+            g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, "give the mode to draw: --mode N "
+                         "(numbered from 1 as in 'quaver modes'); %s names none in a \"view\"",
+                         input->name);
+            goto fail;
+          }
+        mode = input->view.mode;
+      }
     if ((guint64) mode > modes->n_modes)
       {
         g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, "--mode %" G_GINT64_FORMAT " is out of range: "
@@ -359,6 +372,14 @@ qv_cmd_picture (int argc, char **argv)
       goto fail;
     qv_camera_view_along (&r.camera, axis);
   }
+  /* a bundle's saved view, unless the command line sets the view */
+  if (input->view.has_orientation && !view && !rotate && !orientation)
+    for (int i = 0; i < 4; i++)
+      r.camera.orientation[i] = (float) input->view.orientation[i];
+  if (input->view.has_projection && !ortho)
+    ortho = input->view.orthographic;
+  if (input->view.present && zoom == 1.0)
+    zoom = input->view.zoom;
   if (orientation)
     {
       double q[4];

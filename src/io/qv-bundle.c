@@ -1441,6 +1441,60 @@ read_modes (Reader *r, JsonNode *node, const QvStructure *s)
   return modes;
 }
 
+/* --- view ----------------------------------------------------------------- */
+
+/* "view": the orientation, projection, zoom and mode of a picture. Keys of
+ * the app's own state may sit beside them and are left alone. */
+static gboolean
+read_view (Reader *r, JsonNode *node, QvBundleView *view)
+{
+  JsonObject *o = read_object (r, node, "view");
+  JsonNode *n;
+  const char *text;
+
+  if (o == NULL)
+    return FALSE;
+  view->present = TRUE;
+  view->zoom = 1.0;
+  if ((n = member (o, "orientation")) != NULL)
+    {
+      double *q = view->orientation;
+      double norm;
+      if (!read_numbers (r, n, "view.orientation", 4, " (a quaternion x, y, z, w)", q))
+        return FALSE;
+      norm = sqrt (q[0] * q[0] + q[1] * q[1] + q[2] * q[2] + q[3] * q[3]);
+      if (!(norm > 1e-6))
+        return fail (r, "view.orientation", "a rotation needs a quaternion of non-zero length");
+      for (int i = 0; i < 4; i++)
+        q[i] /= norm;
+      view->has_orientation = TRUE;
+    }
+  if ((n = member (o, "projection")) != NULL)
+    {
+      if (!read_string (r, n, "view.projection", &text))
+        return FALSE;
+      if (strcmp (text, "orthographic") != 0 && strcmp (text, "perspective") != 0)
+        return fail (r, "view.projection", "expected \"perspective\" or \"orthographic\", found \"%s\"",
+                     text);
+      view->has_projection = TRUE;
+      view->orthographic = strcmp (text, "orthographic") == 0;
+    }
+  if ((n = member (o, "zoom")) != NULL)
+    {
+      if (!read_number (r, n, "view.zoom", -1, &view->zoom))
+        return FALSE;
+      if (!(view->zoom > 0 && view->zoom <= 100))
+        return fail (r, "view.zoom", "expected a factor above 0 (up to 100), found %g", view->zoom);
+    }
+  if ((n = member (o, "mode")) != NULL)
+    {
+      if (!is_integer (n) || json_node_get_int (n) < 1 || json_node_get_int (n) > G_MAXUINT)
+        return fail (r, "view.mode", "expected a mode number from 1, found %s", kind (n));
+      view->mode = (guint) json_node_get_int (n);
+    }
+  return TRUE;
+}
+
 /* --- the bundle ---------------------------------------------------------- */
 
 static gboolean
@@ -1530,6 +1584,15 @@ read_bundle (Reader *r, JsonNode *root_node)
     }
   else if ((bundle->modes = read_modes (r, modes, bundle->structure)) == NULL)
     return NULL;
+  if ((n = member (root, "view")) != NULL && !read_view (r, n, &bundle->view))
+    return NULL;
+  if (bundle->view.mode > 3 * bundle->structure->n_atoms)
+    {
+      fail (r, "view.mode", "mode %u does not exist: %" G_GSIZE_FORMAT " atoms have at most %"
+            G_GSIZE_FORMAT " modes", bundle->view.mode, bundle->structure->n_atoms,
+            3 * bundle->structure->n_atoms);
+      return NULL;
+    }
   return g_steal_pointer (&bundle);
 }
 

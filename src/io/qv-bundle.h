@@ -14,6 +14,18 @@ G_BEGIN_DECLS
 /* Largest Hessian dimension stored inline; beyond it, a file beside the bundle. */
 #define QV_BUNDLE_MAX_INLINE_N 600
 
+/* The view a bundle keeps so that pictures can be made again ("view";
+ * every member optional). */
+typedef struct {
+  gboolean present;            /* the bundle has a "view" */
+  gboolean has_orientation;
+  double orientation[4];       /* unit quaternion x, y, z, w: world → view */
+  gboolean has_projection;
+  gboolean orthographic;
+  double zoom;                 /* × the fitted frame, default 1 */
+  guint mode;                  /* 1-based mode shown, 0 when not given */
+} QvBundleView;
+
 typedef struct {
   char *title;                 /* optional */
   QvStructure *structure;      /* masses with the bundle's overrides applied */
@@ -22,6 +34,7 @@ typedef struct {
   char *hessian_units;         /* as written in the bundle */
   char *hessian_path;          /* resolved path when referenced, else NULL */
   QvModeSet *modes;            /* precomputed modes, or NULL */
+  QvBundleView view;
 } QvBundle;
 
 /* @path is used for messages and to resolve a relative Hessian path, which

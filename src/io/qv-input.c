@@ -21,6 +21,7 @@ load_bundle (QvInput *input, QvBundle *bundle)
 {
   input->structure = g_steal_pointer (&bundle->structure);
   input->mass_model = bundle->mass_model;
+  input->view = bundle->view;
   input->hessian = g_steal_pointer (&bundle->hessian);
   input->modes = g_steal_pointer (&bundle->modes);
   input->hessian_units = g_strdup (bundle->hessian_units);

@@ -3,6 +3,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #pragma once
 #include <glib.h>
+#include "qv-bundle.h"
 #include "qv-hessian.h"
 #include "qv-mode-set.h"
 #include "qv-structure.h"
@@ -22,6 +23,7 @@ typedef struct {
   QvHessianLayout layout;
   QvMassModel mass_model;
   guint n_frames;               /* frames in the geometry file; the first is used */
+  QvBundleView view;            /* a bundle's saved view (view.present) */
 } QvInput;
 
 typedef struct {

@@ -184,6 +184,26 @@ _, _, _, px2, _ = read_png(again)
 diff = np.abs(px - px2)
 chk.ok(diff.max() <= 2, "the recorded orientation gives the same picture (max diff %d)" % diff.max())
 
+# a bundle's "view" (docs/formats.md) stands in for --mode and --orientation
+src = os.path.join(os.environ["QV_SOURCE_ROOT"], "data", "examples", "ethanol-unconverged",
+                   "ethanol.quaver.json")
+bundle = json.load(open(src))
+bundle["view"] = {"mode": 7, "orientation": [float(t) for t in
+                                             text.get("quaver:orientation", "0,0,0,1").split(",")]}
+bpath = os.path.join(tmp, "viewed.quaver.json")
+json.dump(bundle, open(bpath, "w"))
+vpng = os.path.join(tmp, "v.png")
+q.run(["picture", bpath, "--size", "320x200", "-o", vpng])
+_, _, _, px3, text3 = read_png(vpng)
+chk.ok("mode 7" in text3.get("Description", ""), "the bundle's view names the mode")
+chk.ok(np.abs(px - px3).max() <= 2, "the bundle's view gives the same picture (max diff %d)"
+       % np.abs(px - px3).max())
+bundle["view"] = {"orientation": [0, 0, 0, 0]}
+json.dump(bundle, open(bpath, "w"))
+p = q.run(["picture", bpath, "--mode", "7", "-o", os.path.join(tmp, "w.png")], expect=2)
+chk.ok("view.orientation" in p.stderr_text, "a zero quaternion in the bundle: exit 2, names "
+       "view.orientation: %r" % p.stderr_text.strip())
+
 tpng = os.path.join(tmp, "t.png")
 q.run(["picture", "--demo", "--mode", "7", "--size", "160x120", "--transparent", "-o", tpng])
 w, h, ctype, px, _ = read_png(tpng)
