@@ -182,7 +182,10 @@ stop (GString *s, double offset, const double rgb[3])
 /* The shaded disc's radial gradient, defined once per colour and level:
  * the focal point where the highlight peaks (the normal along the half
  * vector), stops shaded along the line from there through the centre to
- * the far rim. */
+ * the far rim. The gradient's circle is shifted toward the light and
+ * grown to touch the far rim, so the rim on the lit side (nearer the
+ * focal point in offset) stays lighter than the far one, as lit. */
+#define SPHERE_LIGHT_SHIFT 0.3
 static const char *
 sphere_gradient (Figure *f, const double base[3], int level)
 {
@@ -198,7 +201,10 @@ sphere_gradient (Figure *f, const double base[3], int level)
       g_string_free (id, TRUE);
       return key;
     }
-  g_string_append_printf (f->defs, "<radialGradient id=\"%s\" cx=\"0.5\" cy=\"0.5\" r=\"0.5\"", id->str);
+  g_string_append_printf (f->defs, "<radialGradient id=\"%s\"", id->str);
+  attr (f->defs, "cx", 0.5 + 0.5 * SPHERE_LIGHT_SHIFT * (fl > 0 ? fx / fl : 0.0));
+  attr (f->defs, "cy", 0.5 - 0.5 * SPHERE_LIGHT_SHIFT * (fl > 0 ? fy / fl : 0.0));
+  attr (f->defs, "r", 0.5 * (1.0 + SPHERE_LIGHT_SHIFT));
   attr (f->defs, "fx", 0.5 + 0.5 * fx);
   attr (f->defs, "fy", 0.5 - 0.5 * fy);
   g_string_append (f->defs, ">");
