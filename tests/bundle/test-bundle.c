@@ -618,8 +618,8 @@ test_depth_bomb (void **state)
   g_string_free (text, TRUE);
 }
 
-/* Depth 64 exactly is accepted: a "view" (ignored) nested 63 deep inside
- * the top-level object. */
+/* Depth 64 exactly is accepted: an unknown top-level key (ignored, for
+ * forward compatibility) nested 63 deep inside the top-level object. */
 static void
 test_depth_limit (void **state)
 {
@@ -627,7 +627,7 @@ test_depth_limit (void **state)
   g_autoptr(GError) error = NULL;
   QvBundle *b;
 
-  g_string_append (text, " \"view\": ");
+  g_string_append (text, " \"notes\": ");
   for (int k = 0; k < QV_BUNDLE_MAX_DEPTH - 1; k++)
     g_string_append_c (text, '[');
   for (int k = 0; k < QV_BUNDLE_MAX_DEPTH - 1; k++)
@@ -641,7 +641,7 @@ test_depth_limit (void **state)
 
   /* one more level is refused, at the bracket that passes the limit */
   g_string_assign (text, bundle_head);
-  g_string_append (text, " \"view\": ");
+  g_string_append (text, " \"notes\": ");
   for (int k = 0; k < QV_BUNDLE_MAX_DEPTH; k++)
     g_string_append_c (text, '[');
   for (int k = 0; k < QV_BUNDLE_MAX_DEPTH; k++)
@@ -649,7 +649,7 @@ test_depth_limit (void **state)
   g_string_append (text, ",\n");
   g_string_append (text, bundle_tail);
   {
-    const char *needles[] = { "deep.quaver.json:3:73: nested deeper than 64" };
+    const char *needles[] = { "deep.quaver.json:3:74: nested deeper than 64" };
     b = qv_bundle_read_data (text->str, text->len, "deep.quaver.json", &error);
     check_bad ("depth 65", b, error, needles, 1);
   }
