@@ -16,6 +16,8 @@
 #include "qv-export-section-stencil.h"
 #ifdef QV_GUI_HAVE_PICTURE
 #include "qv-export-section-picture.h"
+#endif
+#ifdef QV_GUI_HAVE_ANIMATION
 #include "qv-export-section-animation.h"
 #endif
 
@@ -382,6 +384,8 @@ qv_export_pane_init (QvExportPane *self)
   add_section (self, "picture", _("_Picture"), _("The view as PNG or SVG"),
                g_object_new (QV_TYPE_EXPORT_SECTION_PICTURE, NULL),
                (SetContextFunc) qv_export_section_picture_set_context);
+#endif
+#ifdef QV_GUI_HAVE_ANIMATION
   add_section (self, "animation", _("Ani_mation"), _("One period of the motion as GIF or XYZ frames"),
                g_object_new (QV_TYPE_EXPORT_SECTION_ANIMATION, NULL),
                (SetContextFunc) qv_export_section_animation_set_context);

@@ -379,6 +379,18 @@ qv_mode_view_set_phase (QvModeView *self, double phase)
   redraw (self);
 }
 
+gboolean
+qv_mode_view_get_camera (QvModeView *self, QvCamera *camera)
+{
+#ifdef QV_GUI_HAVE_RENDERER
+  camera_viewport (self);
+  *camera = self->camera;
+  return TRUE;
+#else
+  return FALSE;
+#endif
+}
+
 double
 qv_mode_view_get_phase (QvModeView *self)
 {

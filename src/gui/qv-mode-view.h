@@ -5,6 +5,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #pragma once
 #include <gtk/gtk.h>
+#include "qv-camera.h"
 #include "qv-structure.h"
 
 G_BEGIN_DECLS
@@ -41,6 +42,9 @@ void qv_mode_view_set_dark (QvModeView *self, gboolean dark);
 void qv_mode_view_view_along (QvModeView *self, int axis);
 void qv_mode_view_reset (QvModeView *self);
 void qv_mode_view_set_highlight (QvModeView *self, gssize atom);
+/* The camera as the view draws it now, for a picture of the same view
+ * (its viewport is the view's); FALSE in a build without the renderer. */
+gboolean qv_mode_view_get_camera (QvModeView *self, QvCamera *camera);
 
 /* The atom drawn under widget point (x, y) at the current phase, or −1.
  * Signal "atom-activated" (guint atom, double x, double y) on a click. */

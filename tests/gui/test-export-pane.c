@@ -21,6 +21,13 @@
 #include "qv-export-section-ensemble.h"
 #include "qv-export-section-stencil.h"
 #include "qv-export-writer.h"
+#ifdef QV_GUI_HAVE_PICTURE
+#include <gdk-pixbuf/gdk-pixbuf.h>
+#include "qv-export-section-picture.h"
+#endif
+#ifdef QV_GUI_HAVE_ANIMATION
+#include "qv-export-section-animation.h"
+#endif
 
 /* The demo is ethanol-like, 9 atoms, not linear (data/examples, invented):
  * a non-linear molecule has 3N − 6 vibrations (textbook, e.g. Wilson,
@@ -375,6 +382,75 @@ test_ensemble_and_stencil_preview (void **state)
   close_window (window);
 }
 
+#ifdef QV_GUI_HAVE_PICTURE
+/* The picture and the animation, drawn offscreen by the worker: the PNG
+ * and the GIF decode (gdk-pixbuf, an independent decoder) to the size asked
+ * for, the GIF is animated, and the XYZ has one frame per step. */
+static void
+test_picture_and_animation_written (void **state)
+{
+  QvWindow *window = demo_window_with_pane ();
+  QvExportPane *pane = qv_window_get_export_pane (window);
+  QvExportSectionPicture *picture;
+  QvExportWriter *writer;
+  g_autofree char *dir = temp_dir ();
+  g_autofree char *png = g_build_filename (dir, "mode7.png", NULL);
+  g_autofree char *svg = g_build_filename (dir, "mode7.svg", NULL);
+  g_autofree char *gif = g_build_filename (dir, "mode7.gif", NULL);
+  g_autofree char *xyz = g_build_filename (dir, "mode7-frames.xyz", NULL);
+  g_autoptr(GdkPixbuf) pixbuf = NULL;
+  g_autoptr(GError) error = NULL;
+  g_autofree char *text = NULL;
+
+  qv_mode_panel_select (qv_window_get_mode_panel (window), 6);
+  picture = QV_EXPORT_SECTION_PICTURE (qv_export_pane_get_section (pane, "picture", TRUE));
+  qv_export_section_picture_set_size (picture, 160, 120);
+  qv_export_section_picture_set_format (picture, 2);
+  qvg_spin (0.05);
+  assert_non_null (strstr (qv_export_section_picture_get_preview (picture), "mode7.png"));
+  writer = qv_export_section_picture_get_writer (picture);
+  qv_export_writer_write_to (writer, dir, FALSE);
+  assert_true (qvg_wait (writer_idle, writer, 60.0));
+  if (qv_export_writer_get_error (writer))
+    fail_msg ("picture: %s", qv_export_writer_get_error (writer)->message);
+  pixbuf = gdk_pixbuf_new_from_file (png, &error);
+  assert_non_null (pixbuf);
+  assert_int_equal (gdk_pixbuf_get_width (pixbuf), 160);
+  assert_int_equal (gdk_pixbuf_get_height (pixbuf), 120);
+  assert_true (g_file_get_contents (svg, &text, NULL, NULL));
+  assert_non_null (strstr (text, "<svg"));
+  g_clear_pointer (&text, g_free);
+
+#ifdef QV_GUI_HAVE_ANIMATION
+  QvExportSectionAnimation *animation;
+  g_autoptr(GdkPixbufAnimation) anim = NULL;
+
+  animation = QV_EXPORT_SECTION_ANIMATION (qv_export_pane_get_section (pane, "animation", TRUE));
+  qv_export_section_animation_set_size (animation, 96, 72);
+  qv_export_section_animation_set_frames (animation, 6);
+  qv_export_section_animation_set_format (animation, 2);
+  qvg_spin (0.05);
+  writer = qv_export_section_animation_get_writer (animation);
+  /* The folder now holds the picture: writing beside it is asked for. */
+  qv_export_writer_write_to (writer, dir, TRUE);
+  assert_true (qvg_wait (writer_idle, writer, 60.0));
+  if (qv_export_writer_get_error (writer))
+    fail_msg ("animation: %s", qv_export_writer_get_error (writer)->message);
+  anim = gdk_pixbuf_animation_new_from_file (gif, &error);
+  assert_non_null (anim);
+  assert_int_equal (gdk_pixbuf_animation_get_width (anim), 96);
+  assert_int_equal (gdk_pixbuf_animation_get_height (anim), 72);
+  assert_false (gdk_pixbuf_animation_is_static_image (anim));
+  /* XYZ (common practice): each frame starts with the atom count line. */
+  assert_true (g_file_get_contents (xyz, &text, NULL, NULL));
+  assert_int_equal (count_lines (text, "9"), 6);
+#endif
+
+  remove_tree (dir);
+  close_window (window);
+}
+#endif
+
 int
 main (void)
 {
@@ -385,6 +461,9 @@ main (void)
     cmocka_unit_test (test_scan_written_with_manifest),
     cmocka_unit_test (test_cancel_leaves_no_manifest),
     cmocka_unit_test (test_ensemble_and_stencil_preview),
+#ifdef QV_GUI_HAVE_PICTURE
+    cmocka_unit_test (test_picture_and_animation_written),
+#endif
   };
 
   qvg_app ();
