@@ -86,69 +86,127 @@ qv_picture_frame_positions (const QvPictureRequest *r, guint k, double *position
   qv_picture_frame_positions_at (r, 2.0 * G_PI * (double) k / (double) n, positions);
 }
 
+/* A point the frame must hold, with the room it needs around it (Å). */
+typedef struct {
+  double p[3];
+  double pad;
+} FitPoint;
+
 void
 qv_picture_fit_camera (QvPictureRequest *r)
 {
   const gsize n = r->structure ? r->structure->n_atoms : 0;
   g_autofree double *plus = g_new (double, 3 * MAX (n, 1));
   g_autofree double *minus = g_new (double, 3 * MAX (n, 1));
-  mat4 view;
-  vec3 lo = { 0, 0, 0 }, hi = { 0, 0, 0 };
-  float pad = 0.0f, half_h, half_w, aspect, t;
-  gboolean first = TRUE;
+  g_autofree double *d = NULL;
+  g_autoptr(GArray) pts = g_array_new (FALSE, FALSE, sizeof (FitPoint));
+  mat4 view, inverse;
+  float lo[2] = { 0, 0 }, hi[2] = { 0, 0 };
+  double t, aspect, dist = 0.0, depth = 0.0, largest = 0.0;
+  const double margin = 0.25;   /* Å of air around everything drawn */
 
   qv_camera_set_viewport (&r->camera, MAX (r->width, 1), MAX (r->height, 1));
   if (n == 0)
     return;
   qv_picture_frame_positions_at (r, 0.0, plus);
   qv_picture_frame_positions_at (r, G_PI, minus);
+  if (r->options.arrows && r->modes && r->mode < r->modes->n_modes && r->modes->n_atoms == n)
+    {
+      d = g_new (double, 3 * n);
+      qv_mode_set_cartesian (r->modes, r->mode, d);
+      for (gsize a = 0; a < n; a++)
+        largest = MAX (largest, sqrt (d[3 * a] * d[3 * a] + d[3 * a + 1] * d[3 * a + 1]
+                                      + d[3 * a + 2] * d[3 * a + 2]));
+    }
   for (gsize a = 0; a < n; a++)
-    pad = MAX (pad, qv_style_element (r->structure->atoms[a].z)->radius * r->options.atom_scale);
-  /* Arrows reach QV_PICTURE_ARROW_LONGEST beyond an atom at most. */
-  if (r->options.arrows && r->modes)
-    pad += QV_PICTURE_ARROW_LONGEST * 0.6f;
-  pad += 0.3f;
+    {
+      const double radius = qv_style_element (r->structure->atoms[a].z)->radius
+                            * (r->options.atom_scale > 0 ? r->options.atom_scale : 1.0f);
+      FitPoint f;
+      for (int k = 0; k < 3; k++)
+        f.p[k] = plus[3 * a + k];
+      f.pad = radius + margin;
+      g_array_append_val (pts, f);
+      for (int k = 0; k < 3; k++)
+        f.p[k] = minus[3 * a + k];
+      g_array_append_val (pts, f);
+      if (d && largest > 0.0)
+        {
+          /* the arrow's tip: from 0.85 of the radius (qv-renderer), as long
+           * as its share of the longest arrow */
+          const double *u = d + 3 * a;
+          const double len = sqrt (u[0] * u[0] + u[1] * u[1] + u[2] * u[2]);
+          if (len >= QV_PICTURE_ARROW_MIN_SHARE * largest)
+            {
+              const double reach = 0.85 * radius + QV_PICTURE_ARROW_LONGEST * len / largest;
+              for (int k = 0; k < 3; k++)
+                f.p[k] = r->structure->atoms[a].position[k] + u[k] / len * reach;
+              f.pad = 0.15 + margin;   /* the cone's half-width */
+              g_array_append_val (pts, f);
+            }
+        }
+    }
 
-  /* A box in view space around every atom at both extremes: a tighter
-   * frame than the bounding sphere for elongated molecules. */
+  /* The frame's centre: the middle of the padded extent across the view. */
   r->camera.target[0] = r->camera.target[1] = r->camera.target[2] = 0.0f;
   r->camera.distance = 1.0f;
   qv_camera_view_matrix (&r->camera, view);
-  for (int pass = 0; pass < 2; pass++)
-    for (gsize a = 0; a < n; a++)
-      {
-        const double *p = (pass ? minus : plus) + 3 * a;
-        vec4 w = { (float) p[0], (float) p[1], (float) p[2], 1.0f }, v;
-        glm_mat4_mulv (view, w, v);
-        for (int k = 0; k < 3; k++)
-          {
-            if (first || v[k] < lo[k])
-              lo[k] = v[k];
-            if (first || v[k] > hi[k])
-              hi[k] = v[k];
-          }
-        first = FALSE;
-      }
+  for (guint i = 0; i < pts->len; i++)
+    {
+      const FitPoint *f = &g_array_index (pts, FitPoint, i);
+      vec4 w = { (float) f->p[0], (float) f->p[1], (float) f->p[2], 1.0f }, v;
+      glm_mat4_mulv (view, w, v);
+      for (int k = 0; k < 2; k++)
+        {
+          if (i == 0 || v[k] - f->pad < lo[k])
+            lo[k] = v[k] - (float) f->pad;
+          if (i == 0 || v[k] + f->pad > hi[k])
+            hi[k] = v[k] + (float) f->pad;
+        }
+    }
   {
-    /* the box centre back in world space */
-    mat4 inverse;
-    vec4 c = { (lo[0] + hi[0]) / 2, (lo[1] + hi[1]) / 2, (lo[2] + hi[2]) / 2, 1.0f }, w;
+    vec4 c = { (lo[0] + hi[0]) / 2, (lo[1] + hi[1]) / 2, 0.0f, 1.0f }, w;
+    /* depth: the centre of the points along the view axis */
+    double zsum = 0.0;
+    for (guint i = 0; i < pts->len; i++)
+      {
+        const FitPoint *f = &g_array_index (pts, FitPoint, i);
+        vec4 pw = { (float) f->p[0], (float) f->p[1], (float) f->p[2], 1.0f }, v;
+        glm_mat4_mulv (view, pw, v);
+        zsum += v[2];
+      }
+    c[2] = (float) (zsum / pts->len);
     glm_mat4_inv (view, inverse);
     glm_mat4_mulv (inverse, c, w);
     glm_vec3_copy (w, r->camera.target);
   }
-  aspect = (float) MAX (r->width, 1) / (float) MAX (r->height, 1);
-  half_w = (hi[0] - lo[0]) / 2 + pad;
-  half_h = (hi[1] - lo[1]) / 2 + pad;
-  half_h = MAX (half_h, half_w / aspect);
-  t = tanf (r->camera.fov_y / 2);
-  /* orthographic: the half-height at the target is distance·tan(fov/2);
-   * perspective: the nearest face of the box must fit as well */
-  r->camera.distance = half_h / t;
-  if (r->camera.projection == QV_CAMERA_PERSPECTIVE)
-    r->camera.distance += (hi[2] - lo[2]) / 2 + pad;
-  r->camera.scene_radius = sqrtf (half_w * half_w + half_h * half_h
-                                  + ((hi[2] - lo[2]) / 2 + pad) * ((hi[2] - lo[2]) / 2 + pad));
+
+  /* The nearest distance at which every padded point is inside the frame:
+   * in perspective a point at view depth z (towards the eye) and offset x,
+   * y needs d − z ≥ (|y| + pad)/t and (|x| + pad)/(t·aspect); in
+   * orthographic d·t is the half-height. */
+  aspect = (double) MAX (r->width, 1) / (double) MAX (r->height, 1);
+  t = tan (r->camera.fov_y / 2);
+  r->camera.distance = 1.0f;
+  qv_camera_view_matrix (&r->camera, view);
+  for (guint i = 0; i < pts->len; i++)
+    {
+      const FitPoint *f = &g_array_index (pts, FitPoint, i);
+      vec4 w = { (float) f->p[0], (float) f->p[1], (float) f->p[2], 1.0f }, v;
+      double need;
+      glm_mat4_mulv (view, w, v);
+      /* view space has the eye at +distance on z: undo the 1 Å used here */
+      v[2] += 1.0f;
+      need = MAX ((fabs (v[1]) + f->pad) / t, (fabs (v[0]) + f->pad) / (t * aspect));
+      if (r->camera.projection == QV_CAMERA_PERSPECTIVE)
+        need += v[2] + f->pad;
+      dist = MAX (dist, need);
+      depth = MAX (depth, fabs (v[2]) + f->pad);
+    }
+  r->camera.distance = (float) MAX (dist, 1.0);
+  r->camera.scene_radius = (float) sqrt (depth * depth
+                                         + (hi[0] - lo[0]) * (hi[0] - lo[0]) / 4
+                                         + (hi[1] - lo[1]) * (hi[1] - lo[1]) / 4);
 }
 
 typedef struct {
