@@ -478,6 +478,20 @@ qv_cmd_compare (int argc, char **argv)
       geometry_b = argv[2];
     }
 
+  for (int side = 0; side < 2 && !in.demo; side++)
+    {
+      const char *geometry = side ? geometry_b : geometry_a;
+      if (!qv_input_is_bundle (geometry) && (side ? in.hessian_b : in.hessian_a) == NULL)
+        {
+          g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                       "%s: %s is a geometry without a Hessian: pass --hessian-%s FILE and "
+                       "--hessian-units UNIT, or give a bundle (*.quaver.json)",
+                       side ? "B" : "A", geometry, side ? "b" : "a");
+          status = qv_cli_fail ("compare", error);
+          goto out;
+        }
+    }
+
   side_args (&in, FALSE, &args_a);
   side_args (&in, TRUE, &args_b);
   modes_a = qv_cli_solve (&args_a, geometry_a, &input_a, &error);
