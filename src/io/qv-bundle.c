@@ -1495,6 +1495,109 @@ read_view (Reader *r, JsonNode *node, QvBundleView *view)
   return TRUE;
 }
 
+/* --- derivative tensors ---------------------------------------------------- */
+
+/* "dipole_derivatives" or "polarizability_derivatives": {"units": U,
+ * "data": [[3N numbers] × R]} with R one of @row_counts (0-terminated). The
+ * values are returned in the file's unit, with its conversion factor. */
+static double *
+read_tensor (Reader *r, JsonNode *node, const char *key, gsize n_atoms, const gsize *row_counts,
+             const char *rows_text, gboolean dipole, char **units_out, double *factor,
+             gsize *n_rows)
+{
+  static const char *const keys[] = { "units", "data", NULL };
+  g_autofree char *units_path = path_key (key, "units"), *data_path = path_key (key, "data");
+  g_autofree char *what = g_strdup_printf (" (3N, %" G_GSIZE_FORMAT " atoms)", n_atoms);
+  g_autofree double *values = NULL;
+  g_autoptr(GError) local = NULL;
+  JsonObject *object = read_object (r, node, key);
+  JsonArray *rows;
+  const char *units;
+  const gsize n = 3 * n_atoms;
+  gsize count;
+  gboolean allowed = FALSE;
+  JsonNode *m;
+
+  if (object == NULL || !check_keys (r, object, key, keys))
+    return NULL;
+  if ((m = member (object, "units")) == NULL)
+    {
+      fail_at (r, AT_MISSING, key, "units", "missing; the unit must be stated (%s)",
+               dipole ? qv_dipole_derivative_unit_list () : qv_polarizability_derivative_unit_list ());
+      return NULL;
+    }
+  if (!read_string (r, m, units_path, &units))
+    return NULL;
+  if (!(dipole ? qv_dipole_derivative_unit_parse (units, factor, &local)
+               : qv_polarizability_derivative_unit_parse (units, factor, &local)))
+    {
+      fail (r, units_path, "%s", local->message);
+      return NULL;
+    }
+  if ((m = member (object, "data")) == NULL)
+    {
+      fail_at (r, AT_MISSING, key, "data", "missing; give %s rows of 3N = %" G_GSIZE_FORMAT
+               " numbers", rows_text, n);
+      return NULL;
+    }
+  if ((rows = read_array (r, m, data_path, TRUE, "rows", "row")) == NULL)
+    return NULL;
+  count = json_array_get_length (rows);
+  for (gsize i = 0; row_counts[i] != 0; i++)
+    allowed = allowed || count == row_counts[i];
+  if (!allowed)
+    {
+      fail (r, data_path, "expected %s rows of 3N = %" G_GSIZE_FORMAT " numbers, found %"
+            G_GSIZE_FORMAT " rows", rows_text, n, count);
+      return NULL;
+    }
+  values = g_new (double, count * n);
+  for (gsize i = 0; i < count; i++)
+    {
+      g_autofree char *where = path_index (data_path, i);
+      if (!read_numbers (r, json_array_get_element (rows, (guint) i), where, n, what,
+                         &values[i * n]))
+        return NULL;
+    }
+  *units_out = g_strdup (units);
+  *n_rows = count;
+  return g_steal_pointer (&values);
+}
+
+static gboolean
+read_derivatives (Reader *r, JsonObject *root, QvBundle *bundle)
+{
+  static const gsize dipole_rows[] = { 3, 0 }, alpha_rows[] = { 6, 9, 0 };
+  const gsize n_atoms = bundle->structure->n_atoms;
+  JsonNode *dipole = member (root, "dipole_derivatives");
+  JsonNode *alpha = member (root, "polarizability_derivatives");
+  double factor = 1.0;
+  gsize n_rows = 0;
+
+  if (dipole == NULL && alpha == NULL)
+    return TRUE;
+  bundle->derivatives = qv_derivatives_new (n_atoms);
+  if (dipole != NULL)
+    {
+      g_autofree double *v = read_tensor (r, dipole, "dipole_derivatives", n_atoms, dipole_rows,
+                                          "3", TRUE, &bundle->dipole_units, &factor, &n_rows);
+      if (v == NULL)
+        return FALSE;
+      qv_derivatives_set_dipole (bundle->derivatives, v, factor);
+    }
+  if (alpha != NULL)
+    {
+      g_autofree double *v = read_tensor (r, alpha, "polarizability_derivatives", n_atoms,
+                                          alpha_rows, "6 (xx, yy, zz, xy, xz, yz) or 9 (xx, xy, "
+                                          "xz, yx, yy, yz, zx, zy, zz)", FALSE,
+                                          &bundle->polarizability_units, &factor, &n_rows);
+      if (v == NULL)
+        return FALSE;
+      qv_derivatives_set_polarizability (bundle->derivatives, n_rows, v, factor);
+    }
+  return TRUE;
+}
+
 /* --- the bundle ---------------------------------------------------------- */
 
 static gboolean
@@ -1586,6 +1689,8 @@ read_bundle (Reader *r, JsonNode *root_node)
     return NULL;
   if ((n = member (root, "view")) != NULL && !read_view (r, n, &bundle->view))
     return NULL;
+  if (!read_derivatives (r, root, bundle))
+    return NULL;
   if (bundle->view.mode > 3 * bundle->structure->n_atoms)
     {
       fail (r, "view.mode", "mode %u does not exist: %" G_GSIZE_FORMAT " atoms have at most %"
@@ -1665,5 +1770,8 @@ qv_bundle_free (QvBundle *bundle)
   g_free (bundle->hessian_units);
   g_free (bundle->hessian_path);
   qv_mode_set_free (bundle->modes);
+  qv_derivatives_free (bundle->derivatives);
+  g_free (bundle->dipole_units);
+  g_free (bundle->polarizability_units);
   g_free (bundle);
 }

@@ -4,6 +4,7 @@
 #pragma once
 #include <glib.h>
 #include "qv-hessian.h"
+#include "qv-intensity.h"
 #include "qv-mode-set.h"
 #include "qv-structure.h"
 
@@ -35,6 +36,12 @@ typedef struct {
   char *hessian_path;          /* resolved path when referenced, else NULL */
   QvModeSet *modes;            /* precomputed modes, or NULL */
   QvBundleView view;
+  /* "dipole_derivatives" / "polarizability_derivatives" (optional): the
+   * tensors in the core's units (e, Å²), or NULL when the bundle has neither;
+   * the units as written, or NULL. */
+  QvDerivatives *derivatives;
+  char *dipole_units;
+  char *polarizability_units;
 } QvBundle;
 
 /* @path is used for messages and to resolve a relative Hessian path, which
