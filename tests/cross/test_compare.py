@@ -144,6 +144,36 @@ with qt.tmpdir() as tmp:
     p = compare(base + ["--duschinsky"], expect=2)
     chk.ok("same masses" in p.stderr_text and "atom %d" % (d_atom + 1) in p.stderr_text,
            "isotopologue: --duschinsky refused with a message naming the atom: %r" % p.stderr_text)
+    # rectangular: B is a bundle of precomputed modes (formats.md), a subset
+    # of the deuterated set's modes solved here, every other one from 1
+    sub = list(range(1, n_vib, 2))
+    D_b = ref_b["L"][:, sub] / sm_b[:, None]
+    bundle = {
+        "format": "quaver-bundle", "version": 1,
+        "title": "invented spring network, deuterated, some modes (test)",
+        "structure": {"atoms": [dict(element=s_, position=list(map(float, r)),
+                                     **({"isotope": 2} if k == d_atom else {}))
+                                for k, (s_, r) in enumerate(zip(symbols, x))]},
+        "modes": {"wavenumbers": [float(v) for v in qt.to_wavenumber(ref_b["lam"][sub])],
+                  "displacements": [list(map(float, D_b[:, k])) for k in range(len(sub))]},
+    }
+    bpath = os.path.join(tmp, "sub.quaver.json")
+    with open(bpath, "w") as f:
+        json.dump(bundle, f)
+    doc = compare_json([xyz_a, bpath, "--hessian-a", hes_a, "-u", "eV/A^2"])
+    ua, ub = conventions["common-mass"]
+    O_s = np.abs(ua.T @ ub[:, sub])
+    chk.ok(doc["b"]["n_modes"] == len(sub) and np.allclose(doc["b"]["masses"][d_atom], m_b[d_atom], rtol=1e-8),
+           "precomputed subset: B has %d modes and the deuterium mass" % len(sub))
+    chk.close(np.array(doc["overlap"]), O_s, "precomputed subset: %d x %d overlap against NumPy"
+              % O_s.shape, atol=1e-7)
+    rows, cols = linear_sum_assignment(O_s ** 2, maximize=True)
+    got = sorted((p["mode_a"] - 1, p["mode_b"] - 1) for p in doc["matching"])
+    chk.ok(got == sorted(zip(rows.tolist(), cols.tolist())),
+           "precomputed subset: rectangular matching equals SciPy's")
+    chk.ok(doc["unmatched_a"] == sorted(set(range(1, n_vib + 1)) - set((rows + 1).tolist()))
+           and doc["unmatched_b"] == [], "precomputed subset: the unmatched modes of A are SciPy's leftovers")
+
     # the CSV carries the same matrix (default convention: common-mass)
     ua, ub = conventions["common-mass"]
     O_ref = np.abs(ua.T @ ub)
