@@ -236,8 +236,12 @@ refresh (QvExportPane *self)
       gtk_label_set_label (self->heading_label, context.document ? _("Select a mode in the list.")
                                                                  : _("Open a document to export from it."));
     }
+  /* Only the open section works out its preview now (an ensemble plan or a
+   * long table costs something on a large system); the others do when
+   * they are opened. */
   for (guint i = 0; i < self->n_sections; i++)
-    self->sections[i].set_context (self->sections[i].widget, &context);
+    if (gtk_expander_get_expanded (self->sections[i].expander))
+      self->sections[i].set_context (self->sections[i].widget, &context);
 }
 
 void
@@ -291,6 +295,8 @@ expanded_changed (GtkExpander *expander, GParamSpec *pspec, QvExportPane *self)
   for (guint i = 0; i < self->n_sections; i++)
     if (self->sections[i].expander != expander)
       gtk_expander_set_expanded (self->sections[i].expander, FALSE);
+  /* Read the window again: the document may have changed since. */
+  refresh (self);
 }
 
 static void

@@ -143,8 +143,9 @@ show_result (QvExportWriter *self)
 
   for (guint i = 0; i < n; i++)
     {
-      if (i == 12 && n > 14)
+      if (i == 6 && n > 8)
         {
+          g_string_append_c (files, '\n');
           /* TRANSLATORS: after a list of file names: "… and 40 more" */
           g_string_append_printf (files, ngettext ("… and %u more", "… and %u more", n - i), n - i);
           break;
