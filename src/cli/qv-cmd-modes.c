@@ -1,10 +1,12 @@
 /* qv-cmd-modes.c — `quaver modes`: solve and print the mode table.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <math.h>
 #include <stdio.h>
 #include <string.h>
 #include "qv-cli-solve.h"
 #include "qv-cli.h"
 #include "qv-error.h"
+#include "qv-mode-character.h"
 #include "qv-mode-table.h"
 #include "qv-output.h"
 #include "qv-solver.h"
@@ -21,6 +23,13 @@ static const char modes_description[] =
   "the Hessian looks unconverged. CSV and JSON add the collectivity, the\n"
   "participation of every atom and (--vectors) the displacement vectors.\n"
   "\n"
+  "--character adds what each mode is made of: bonds, angles, dihedrals and\n"
+  "out-of-plane angles are found from covalent radii, and each mode's normalised\n"
+  "potential energy distribution over them (Morino & Kuchitsu 1952) is grouped\n"
+  "into families, largest first (\"C-H stretch 82 %, H-C-H bend 11 %\"): one\n"
+  "line per mode under the text table, a \"character\" object per mode and the\n"
+  "\"internal_coordinates\" in JSON. It needs every mode (not --lowest).\n"
+  "\n"
   "GEOMETRY is an XYZ or extended XYZ file (then --hessian and --hessian-units\n"
   "are required) or a Quaver bundle (*.quaver.json) that carries its Hessian.\n"
   "Atoms in --isotope and --mass count from 1.\n"
@@ -30,9 +39,41 @@ static const char modes_description[] =
   "  quaver modes water.xyz --hessian water.hess --hessian-units hartree/bohr^2\n"
   "  quaver modes mol.quaver.json --level 2 --isotope 3=2 --format json -o modes.json\n"
   "  quaver modes big.xyz --hessian big.npy --hessian-units eV/A^2 --lowest 20\n"
+  "  quaver modes --demo --character\n"
   "\n"
   "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.\n"
   "Harmonic modes are an approximation: validate them before relying on them.";
+
+/* The text form of --character: the method, the coordinate set, then one
+ * line per mode with its families, largest first. */
+static char *
+character_text (const QvModeCharacter *c, const QvModeSet *modes)
+{
+  const QvInternalCoordinates *ic = qv_mode_character_coordinates (c);
+  GString *s = g_string_new ("\n# Internal-coordinate make-up: " QV_MODE_CHARACTER_METHOD "\n# ");
+
+  g_string_append (s, QV_MODE_CHARACTER_REFERENCE);
+  g_string_append_printf (s, "\n# %zu coordinates (%zu stretches, %zu bends, %zu linear bends, "
+                          "%zu torsions, %zu out-of-plane), %zu independent\n",
+                          ic->n_coordinates, qv_internal_coordinates_count (ic, QV_INTERNAL_STRETCH),
+                          qv_internal_coordinates_count (ic, QV_INTERNAL_BEND),
+                          qv_internal_coordinates_count (ic, QV_INTERNAL_LINEAR_BEND),
+                          qv_internal_coordinates_count (ic, QV_INTERNAL_TORSION),
+                          qv_internal_coordinates_count (ic, QV_INTERNAL_OUT_OF_PLANE),
+                          qv_mode_character_rank (c));
+  for (char *const *n = qv_mode_character_notes (c); *n; n++)
+    g_string_append_printf (s, "# note: %s\n", *n);
+  g_string_append (s, "# mode  wavenumber/cm-1  make-up (families of at least 0.5 %; "
+                   "JSON lists every coordinate)\n");
+  for (gsize k = 0; k < modes->n_modes; k++)
+    {
+      g_autofree char *line = qv_mode_character_summary (c, k, 0);
+      double nu = qv_mode_set_wavenumber (modes, k);
+      g_string_append_printf (s, "%6zu  %14.2f%s  %s\n", k + 1, fabs (nu),
+                              qv_mode_set_is_imaginary (modes, k) ? "i" : " ", line);
+    }
+  return g_string_free (s, FALSE);
+}
 
 int
 qv_cmd_modes (int argc, char **argv)
@@ -42,11 +83,12 @@ qv_cmd_modes (int argc, char **argv)
   QvCliSolveArgs solve = { 0 };
   g_autoptr(QvInput) input = NULL;
   g_autoptr(QvModeSet) modes = NULL;
+  g_autoptr(QvModeCharacter) make_up = NULL;
   g_autofree char *document = NULL;
   char *format = NULL, *output = NULL, *unit = NULL;
   gint64 level = 0;
   double temperature = 298.15;
-  gboolean force = FALSE, vectors = FALSE;
+  gboolean force = FALSE, vectors = FALSE, character = FALSE;
   QvModeReport report = { 0 };
   QvTableFormat table_format = QV_TABLE_TEXT;
   int status = QV_EXIT_OK;
@@ -59,6 +101,8 @@ qv_cmd_modes (int argc, char **argv)
     { "output", 'o', 0, G_OPTION_ARG_FILENAME, &output, "Write to FILE instead of standard output", "FILE" },
     { "force", 0, 0, G_OPTION_ARG_NONE, &force, "Replace an existing output file", NULL },
     { "vectors", 0, 0, G_OPTION_ARG_NONE, &vectors, "JSON: include each mode's Cartesian displacement vector", NULL },
+    { "character", 0, 0, G_OPTION_ARG_NONE, &character,
+      "Each mode's make-up by internal coordinates (text and JSON)", NULL },
     { NULL }
   };
 
@@ -87,6 +131,14 @@ qv_cmd_modes (int argc, char **argv)
       status = qv_cli_fail ("modes", error);
       goto out;
     }
+  if (character && table_format != QV_TABLE_TEXT && table_format != QV_TABLE_JSON)
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                   "--character is written with --format text or json; drop --character "
+                   "or choose one of those");
+      status = qv_cli_fail ("modes", error);
+      goto out;
+    }
   if (level < 0 || level > 10000 || !(temperature >= 0 && temperature < 1e7))
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
@@ -107,7 +159,23 @@ qv_cmd_modes (int argc, char **argv)
   report.level = (guint) level;
   report.temperature = temperature;
   report.vectors = vectors;
+  if (character)
+    {
+      make_up = qv_mode_character_new (input->structure, modes, NULL, &error);
+      if (make_up == NULL)
+        {
+          status = qv_cli_fail ("modes", error);
+          goto out;
+        }
+      report.character = make_up;
+    }
   document = qv_mode_table_format (&report, table_format);
+  if (character && table_format == QV_TABLE_TEXT)
+    {
+      g_autofree char *table = g_steal_pointer (&document);
+      g_autofree char *extra = character_text (make_up, modes);
+      document = g_strconcat (table, extra, NULL);
+    }
   status = qv_cli_emit ("modes", output, document, force);
 
 out:

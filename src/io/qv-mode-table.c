@@ -311,6 +311,78 @@ atom_or_null (QvJsonWriter *w, const char *key, gboolean defined, gsize atom)
     qv_json_null (w, key);
 }
 
+/* The coordinate set of `modes --character`: names, kinds, families,
+ * atoms (from 1), values and diagonal force constants. */
+static void
+write_internal_coordinates (QvJsonWriter *w, const QvModeCharacter *c)
+{
+  const QvInternalCoordinates *ic = qv_mode_character_coordinates (c);
+  const double *f = qv_mode_character_force_constants (c);
+
+  qv_json_begin_object (w, "internal_coordinates");
+  qv_json_string (w, "method", QV_MODE_CHARACTER_METHOD);
+  qv_json_string (w, "reference", QV_MODE_CHARACTER_REFERENCE);
+  qv_json_int (w, "rank", (gint64) qv_mode_character_rank (c));
+  qv_json_begin_array (w, "notes");
+  for (char *const *s = qv_mode_character_notes (c); *s; s++)
+    qv_json_string (w, NULL, *s);
+  qv_json_end_array (w);
+  qv_json_begin_array (w, "coordinates");
+  for (gsize i = 0; i < ic->n_coordinates; i++)
+    {
+      const QvInternalCoordinate *q = &ic->coordinates[i];
+      double atoms[4];
+      for (guint a = 0; a < q->n_atoms; a++)
+        atoms[a] = q->atoms[a] + 1.0;
+      qv_json_begin_object (w, NULL);
+      qv_json_int (w, "index", (gint64) i + 1);
+      qv_json_string (w, "name", q->name);
+      qv_json_string (w, "kind", qv_internal_kind_name (q->kind));
+      qv_json_string (w, "family", q->family);
+      qv_json_numbers (w, "atoms", atoms, q->n_atoms);
+      qv_json_number (w, "value", q->value);
+      qv_json_number (w, "force_constant", f[i]);
+      qv_json_end_object (w);
+    }
+  qv_json_end_array (w);
+  qv_json_end_object (w);
+}
+
+/* Mode k's make-up: families and coordinates, largest share first. */
+static void
+write_character (QvJsonWriter *w, const QvModeCharacter *c, gsize k)
+{
+  const QvCharacterItem *items;
+  gsize n;
+
+  qv_json_begin_object (w, "character");
+  qv_json_string (w, "method", QV_MODE_CHARACTER_METHOD);
+  qv_json_number (w, "described", qv_mode_character_described (c, k));
+  qv_json_number (w, "diagonal_sum", qv_mode_character_diagonal_sum (c, k));
+  qv_json_begin_array (w, "families");
+  n = qv_mode_character_families (c, k, &items);
+  for (gsize i = 0; i < n; i++)
+    {
+      qv_json_begin_object (w, NULL);
+      qv_json_string (w, "name", items[i].name);
+      qv_json_number (w, "share", items[i].share);
+      qv_json_end_object (w);
+    }
+  qv_json_end_array (w);
+  qv_json_begin_array (w, "coordinates");
+  n = qv_mode_character_items (c, k, &items);
+  for (gsize i = 0; i < n; i++)
+    {
+      qv_json_begin_object (w, NULL);
+      qv_json_string (w, "name", items[i].name);
+      qv_json_int (w, "index", (gint64) items[i].coordinate + 1);
+      qv_json_number (w, "share", items[i].share);
+      qv_json_end_object (w);
+    }
+  qv_json_end_array (w);
+  qv_json_end_object (w);
+}
+
 static char *
 format_json (const QvModeReport *r)
 {
@@ -374,6 +446,8 @@ format_json (const QvModeReport *r)
     qv_json_int (w, "lowest", (gint64) m->n_modes);
   else
     qv_json_null (w, "lowest");
+  if (r->character)
+    write_internal_coordinates (w, r->character);
 
   qv_json_begin_array (w, "modes");
   for (gsize k = 0; k < m->n_modes; k++)
@@ -412,6 +486,8 @@ format_json (const QvModeReport *r)
       atom_or_null (w, "max_atom", row.th.defined, row.th.max_atom);
       qv_json_end_object (w);
 
+      if (r->character)
+        write_character (w, r->character, k);
       if (cart)
         {
           qv_mode_set_cartesian (m, k, cart);

@@ -5,6 +5,7 @@
 #pragma once
 #include <glib.h>
 #include "qv-hessian.h"
+#include "qv-mode-character.h"
 #include "qv-mode-set.h"
 #include "qv-structure.h"
 #include "qv-units.h"
@@ -33,6 +34,9 @@ typedef struct {
   const char *hessian_units;   /* as given, or NULL */
   QvHessianLayout layout;
   QvMassModel mass_model;
+  const QvModeCharacter *character; /* JSON: "internal_coordinates" and each
+                                       mode's "character" (modes --character),
+                                       or NULL */
 } QvModeReport;
 
 /* A newly allocated, NUL-terminated document. QV_TABLE_LATEX gives the
