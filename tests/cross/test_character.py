@@ -2,7 +2,8 @@
 """`quaver modes --character` against an independent Wilson GF calculation.
 
 For invented molecules with invented valence force fields (the molecules of
-test_gf.py, plus a planar one for the out-of-plane angle): the Cartesian
+test_gf.py, a planar one for the out-of-plane angle, a C3v one for
+degenerate modes and a linear one for linear bends): the Cartesian
 Hessian is H = B^T F B in the force field's own internal coordinates (exact
 at the minimum: no gradient term; Wilson, Decius & Cross, Molecular
 Vibrations, 1955, ch. 4), and quaver gets only H and the geometry.
@@ -62,24 +63,33 @@ def q_oop(x, l, j, i, k):
     return np.arcsin(np.dot(c, e[0]) / np.linalg.norm(c))
 
 
+def q_lin(x, i, j, k, u):
+    """A linear bend towards the fixed unit vector u (WDC 4-1, linear
+    molecules): (e_ji + e_jk).u, to first order the deviation from 180 deg."""
+    e1 = (x[i] - x[j]) / np.linalg.norm(x[i] - x[j])
+    e2 = (x[k] - x[j]) / np.linalg.norm(x[k] - x[j])
+    return np.dot(e1 + e2, u)
+
+
 def b_rows(x, coords):
     """Analytic s-vectors of qvtest for stretches, bends and torsions; the
-    out-of-plane rows by 4-point central differences (error O(h^4), ~1e-13
-    here) of q_oop itself."""
+    out-of-plane and linear-bend rows by 4-point central differences (error
+    O(h^4), ~1e-13 here) of q_oop and q_lin themselves."""
     x = np.asarray(x, float)
     B = np.zeros((len(coords), x.size))
-    plain = [(r, c) for r, c in enumerate(coords) if c[0] != "oop"]
+    plain = [(r, c) for r, c in enumerate(coords) if c[0] not in ("oop", "lin")]
     if plain:
         B[[r for r, _ in plain]] = q.b_matrix(x, [c for _, c in plain])
     h = 1e-4
     for r, c in enumerate(coords):
-        if c[0] != "oop":
+        if c[0] not in ("oop", "lin"):
             continue
+        fn = q_oop if c[0] == "oop" else q_lin
         for col in range(x.size):
             def f(d):
                 y = x.copy().ravel()
                 y[col] += d
-                return q_oop(y.reshape(-1, 3), *c[1:])
+                return fn(y.reshape(-1, 3), *c[1:])
             B[r, col] = (8 * (f(h) - f(-h)) - (f(2 * h) - f(-2 * h))) / (12 * h)
     return B
 
@@ -99,12 +109,23 @@ def perceive(symbols, x):
         return np.degrees(q.q_bend(x, i, j, k))
     for j in range(n):
         for i, k in itertools.combinations(sorted(nbr[j]), 2):
-            chk.ok(angle(i, j, k) < 175, "test molecules have no near-linear angle")
-            coords.append(("bend", i, j, k))
+            if angle(i, j, k) <= 175:
+                coords.append(("bend", i, j, k))
+                continue
+            # near-linear (common practice: > 175 deg): two linear bends
+            # towards any two directions perpendicular to the axis and to
+            # each other (the make-up of the degenerate pair they describe
+            # does not depend on which)
+            axis = (x[k] - x[i]) / np.linalg.norm(x[k] - x[i])
+            u, w = np.linalg.svd(axis[None, :])[2][1:]
+            coords.append(("lin", i, j, k, u))
+            coords.append(("lin", i, j, k, w))
     for kind, j, k in [c for c in coords if c[0] == "stretch"]:
         for i in nbr[j]:
             for l in nbr[k]:
                 if k in (i,) or j in (l,) or i == l:
+                    continue
+                if angle(i, j, k) > 175 or angle(j, k, l) > 175:
                     continue
                 coords.append(("torsion", i, j, k, l))
     for j in range(n):
@@ -124,6 +145,8 @@ def key(c):
         return ("bend", a[1], frozenset((a[0], a[2])))
     if kind == "torsion":
         return ("torsion", min(tuple(a), tuple(a[::-1])))
+    if kind == "lin":      # both directions of one linear angle
+        return ("lin", a[1], frozenset((a[0], a[2])))
     return ("oop", a[0], a[1], frozenset(a[2:]))
 
 
@@ -133,7 +156,7 @@ def family(symbols, c):
     read from the end with H first, then C, then alphabetically
     ("H-C-H bend", "H-C-C-O torsion")."""
     kind, *a = c
-    s = [symbols[i] for i in a]
+    s = [symbols[i] for i in (a[:3] if kind == "lin" else a)]
     if kind == "stretch":
         r = lambda e: (0 if e == "C" else 2 if e == "H" else 1, e)  # noqa: E731
         return DASH.join(sorted(s, key=r)) + " stretch"
@@ -142,7 +165,7 @@ def family(symbols, c):
     r = lambda e: (0 if e == "H" else 1 if e == "C" else 2, e)  # noqa: E731
     fw, bw = [r(e) for e in s], [r(e) for e in s[::-1]]
     use = s if fw <= bw else s[::-1]
-    return DASH.join(use) + (" bend" if kind == "bend" else " torsion")
+    return DASH.join(use) + {"bend": " bend", "lin": " linear bend", "torsion": " torsion"}[kind]
 
 
 # ---------------------------------------------------------------------------
@@ -167,6 +190,7 @@ def gf_modes(B, F, masses):
 
 
 def check_molecule(name, symbols, x, ff_coords, F):
+    """Runs quaver on H = B^T F B and compares its make-up with the GF side."""
     x = np.asarray(x, float)
     masses = q.masses_of(symbols)
     minv = 1.0 / np.repeat(masses, 3)
@@ -180,18 +204,39 @@ def check_molecule(name, symbols, x, ff_coords, F):
     G = (B * minv) @ B.T
     Gp = pinv_sym(G)[0]
     P = G @ Gp
-    index = {key(c): r for r, c in enumerate(coords)}
+    # the force field's coordinates are among the perceived ones (a linear
+    # bend of the force field is the same coordinate as the perceived one of
+    # the same direction: both are written with identical u here)
+    def ident(c):
+        return repr(c) if c[0] == "lin" else repr(key(c))
+    row_of = {ident(c): r for r, c in enumerate(coords)}
     F_emb = np.zeros((len(coords), len(coords)))
     for a, ca in enumerate(ff_coords):
         for b, cb in enumerate(ff_coords):
-            F_emb[index[key(ca)], index[key(cb)]] = F[a, b]
+            F_emb[row_of[ident(ca)], row_of[ident(cb)]] = F[a, b]
     F_H = P @ F_emb @ P
     L = B @ X                                         # perceived coords x modes
     E = np.abs(np.diag(F_H))[:, None] * L ** 2
-    share = E / E.sum(axis=0)
     nu = q.to_wavenumber(lam)
-    chk.ok(np.diff(nu).min() > 1.0, "%s: no degenerate modes (gaps %s cm^-1)"
-           % (name, np.array2string(np.diff(nu), precision=1)))
+    # a degenerate set (here: exact by symmetry, equal to rounding) gets one
+    # distribution summed over the set, as methods.md states
+    share = np.zeros_like(E)
+    k0 = 0
+    while k0 < len(nu):
+        k1 = k0 + 1
+        while k1 < len(nu) and abs(nu[k1] - nu[k1 - 1]) < 1e-3:
+            k1 += 1
+        share[:, k0:k1] = (E[:, k0:k1].sum(axis=1) / E[:, k0:k1].sum())[:, None]
+        k0 = k1
+    # rows of one key (the two directions of a linear angle) are compared
+    # summed: each alone depends on the direction chosen
+    keys = sorted({repr(key(c)) for c in coords})
+    index = {k: i for i, k in enumerate(keys)}
+    S = np.zeros((len(keys), len(coords)))
+    for r, c in enumerate(coords):
+        S[index[repr(key(c))], r] = 1.0
+    share = S @ share
+    fam_of_key = {repr(key(c)): family(symbols, c) for c in coords}
     n_red = len(coords) - np.linalg.matrix_rank(G, tol=1e-9 * np.abs(G).max())
     print("%s: %d perceived coordinates, %d redundant; GF %s cm^-1"
           % (name, len(coords), n_red, np.array2string(nu, precision=1)))
@@ -204,24 +249,25 @@ def check_molecule(name, symbols, x, ff_coords, F):
     ic = doc["internal_coordinates"]["coordinates"]
     got_keys = []
     for c in ic:
-        kind = {"stretch": "stretch", "bend": "bend", "torsion": "torsion",
-                "out-of-plane": "oop"}.get(c["kind"], c["kind"])
+        kind = {"out-of-plane": "oop", "linear bend": "lin"}.get(c["kind"], c["kind"])
         atoms = [int(a) - 1 for a in c["atoms"]]
-        got_keys.append(key((kind, *atoms)))
-        if got_keys[-1] in index:
-            want = family(symbols, coords[index[got_keys[-1]]])
+        got_keys.append(repr(key((kind, *atoms))))
+        if got_keys[-1] in fam_of_key:
+            want = fam_of_key[got_keys[-1]]
             chk.ok(c["family"] == want, "%s: %s family %r, expected %r"
                    % (name, c["name"], c["family"], want))
-    chk.ok(sorted(map(repr, got_keys)) == sorted(map(repr, index)),
+    chk.ok(sorted(got_keys) == sorted(repr(key(c)) for c in coords),
            "%s: quaver's %d coordinates are the %d perceived here" % (name, len(ic), len(coords)))
-    if set(got_keys) != set(index):
+    if sorted(got_keys) != sorted(repr(key(c)) for c in coords):
         return
-    order = [index[k] for k in got_keys]              # quaver row -> our row
-    chk.ok(doc["internal_coordinates"]["rank"] == 3 * len(symbols) - 6,
-           "%s: rank %s, expected 3N-6" % (name, doc["internal_coordinates"]["rank"]))
-    fc = np.array([c["force_constant"] for c in ic])
+    order = [index[k] for k in got_keys]              # quaver row -> our key
+    chk.ok(doc["internal_coordinates"]["rank"] == doc["n_vibrations"] == len(lam),
+           "%s: rank %s, %s vibrations, GF %d" % (name, doc["internal_coordinates"]["rank"],
+                                                  doc["n_vibrations"], len(lam)))
+    fc = np.zeros(len(keys))
+    np.add.at(fc, order, [c["force_constant"] for c in ic])
     # internal force constants the Hessian implies: P F P (F itself when P = I)
-    chk.close(fc, np.diag(F_H)[order], "%s: diagonal internal force constants" % name,
+    chk.close(fc, S @ np.diag(F_H), "%s: diagonal internal force constants" % name,
               rtol=1e-6, atol=1e-9 * np.abs(np.diag(F_H)).max())
     got_nu = np.array([m["wavenumber"] for m in doc["modes"]])
     chk.close(got_nu, nu, "%s: wavenumbers vs GF" % name, rtol=1e-7)
@@ -231,9 +277,9 @@ def check_molecule(name, symbols, x, ff_coords, F):
         ch = m["character"]
         chk.ok(ch["method"] == "normalised potential energy distribution",
                "%s: mode %d method %r" % (name, k + 1, ch["method"]))
-        got = np.zeros(len(coords))
+        got = np.zeros(len(keys))
         for c in ch["coordinates"]:
-            got[order[c["index"] - 1]] = c["share"]
+            got[order[c["index"] - 1]] += c["share"]
         shares = [c["share"] for c in ch["coordinates"]]
         chk.ok(shares == sorted(shares, reverse=True), "%s: mode %d coordinates largest first"
                % (name, k + 1))
@@ -241,8 +287,8 @@ def check_molecule(name, symbols, x, ff_coords, F):
                   atol=1e-6)
         worst = max(worst, np.abs(got - share[:, k]).max())
         fam = {}
-        for r, c in enumerate(coords):
-            fam[family(symbols, c)] = fam.get(family(symbols, c), 0.0) + share[r, k]
+        for kk, r in index.items():
+            fam[fam_of_key[kk]] = fam.get(fam_of_key[kk], 0.0) + share[r, k]
         got_fam = {f["name"]: f["share"] for f in ch["families"]}
         chk.ok(set(got_fam) == set(fam), "%s: mode %d families %s, expected %s"
                % (name, k + 1, sorted(got_fam), sorted(fam)))
@@ -332,6 +378,29 @@ Ff[0, 1] = Ff[1, 0] = 0.9
 Ff[3, 4] = Ff[4, 3] = 0.3
 check_molecule("formaldehyde-like", ["C", "O", "H", "H"], xf, coords_f, Ff)
 
+# (e) ammonia-like NH3, C3v (invented): 3 stretches + 3 bends = 3N-6, with
+# two degenerate pairs (E), whose make-up is compared summed over each pair
+xa = np.array([[0.0, 0.0, 0.0]] + [1.012 * direction(112.0, 120.0 * i + 10.0) for i in range(3)])
+xa = xa @ q.rotation_matrix([0.7, -0.2, 0.5], 0.9).T
+coords_a = [("stretch", 0, 1), ("stretch", 0, 2), ("stretch", 0, 3),
+            ("bend", 1, 0, 2), ("bend", 1, 0, 3), ("bend", 2, 0, 3)]
+Fa = np.diag([40.0, 40.0, 40.0, 3.5, 3.5, 3.5])
+for i, j in itertools.combinations(range(3), 2):
+    Fa[i, j] = Fa[j, i] = 0.4
+    Fa[3 + i, 3 + j] = Fa[3 + j, 3 + i] = 0.25
+check_molecule("ammonia-like", ["N", "H", "H", "H"], xa, coords_a, Fa)
+
+# (f) HCN-like, linear (invented): 2 stretches + 2 linear bends = 3N-5; the
+# force field's bends use the directions perceived here, any pair would do
+xl = np.array([[0.0, 0.0, -1.066], [0.0, 0.0, 0.0], [0.0, 0.0, 1.156]])
+xl = xl @ q.rotation_matrix([0.3, 0.9, -0.4], 1.3).T + np.array([0.2, 0.1, 0.0])
+lin = [c for c in perceive(["H", "C", "N"], xl) if c[0] == "lin"]
+chk.ok(len(lin) == 2, "HCN-like: two linear bends perceived")
+coords_l = [("stretch", 0, 1), ("stretch", 1, 2)] + lin
+Fl = np.diag([36.0, 112.0, 1.6, 1.6])
+Fl[0, 1] = Fl[1, 0] = -1.2
+check_molecule("HCN-like", ["H", "C", "N"], xl, coords_l, Fl)
+
 # The text form: one line per mode under the unchanged table; the default
 # output (no --character) is the table alone, byte for byte.
 plain = q.run(["modes", "--demo"]).stdout_text
@@ -357,5 +426,5 @@ p = q.run(["modes", "--demo", "--character", "--lowest", "3"], expect=1)
 chk.ok("--lowest" in p.stderr_text, "--lowest: %r" % p.stderr_text.strip())
 
 chk.finish("normalised PED of quaver modes --character against an independent GF "
-           "calculation on water-, hydrazine-, methylamine- and formaldehyde-like force "
-           "fields: coordinate sets, families, force constants, shares to 1e-6")
+           "calculation on water-, hydrazine-, methylamine-, formaldehyde-, ammonia- and "
+           "HCN-like force fields: coordinate sets, families, force constants, shares to 1e-6")
