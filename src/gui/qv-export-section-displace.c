@@ -229,6 +229,10 @@ const char *qv_export_section_displace_get_message (QvExportSectionDisplace *sel
 {
   return gtk_label_get_label (self->message_label);
 }
+const char *qv_export_section_displace_get_notes (QvExportSectionDisplace *self)
+{
+  return gtk_label_get_label (self->notes_label);
+}
 QvExportWriter *qv_export_section_displace_get_writer (QvExportSectionDisplace *self) { return self->writer; }
 
 static void

@@ -26,6 +26,8 @@ void qv_export_section_displace_set_amplitude (QvExportSectionDisplace *self, Qv
 gsize qv_export_section_displace_get_n_files (QvExportSectionDisplace *self);
 const char *qv_export_section_displace_get_preview (QvExportSectionDisplace *self);
 const char *qv_export_section_displace_get_message (QvExportSectionDisplace *self);
+/* The plan's notes (the default amplitude's reason…), one a line. */
+const char *qv_export_section_displace_get_notes (QvExportSectionDisplace *self);
 QvExportWriter *qv_export_section_displace_get_writer (QvExportSectionDisplace *self);
 
 G_END_DECLS

@@ -251,6 +251,40 @@ test_scan_preview (void **state)
   close_window (window);
 }
 
+/* Mode 1 of the demo is imaginary (284.8i cm⁻¹): an escape pair takes the
+ * default step, says so in a note, and both structures are written; a
+ * "pair" in turning points is refused under the options (an imaginary mode
+ * has no turning point: the harmonic oscillator's classical turning point
+ * needs ω² > 0, textbook). */
+static void
+test_escape_pair_of_imaginary_mode (void **state)
+{
+  QvWindow *window = demo_window_with_pane ();
+  QvExportPane *pane = qv_window_get_export_pane (window);
+  QvExportSectionDisplace *displace =
+    QV_EXPORT_SECTION_DISPLACE (qv_export_pane_get_section (pane, "displace", TRUE));
+
+  assert_true (qv_mode_set_is_imaginary (qv_document_get_modes (qv_window_get_document (window)), 0));
+  qv_mode_panel_select (qv_window_get_mode_panel (window), 0);
+  qv_export_section_displace_set_kind (displace, QV_DISPLACE_PAIR);
+  qv_export_section_displace_set_amplitude (displace, QV_AMPLITUDE_TURNING_POINT, 1.0);
+  qvg_spin (0.05);
+  assert_int_equal (qv_export_section_displace_get_n_files (displace), 0);
+  print_message ("pair of an imaginary mode: %s\n", qv_export_section_displace_get_message (displace));
+  assert_true (strlen (qv_export_section_displace_get_message (displace)) > 0);
+
+  qv_export_section_displace_set_kind (displace, QV_DISPLACE_ESCAPE);
+  qv_export_section_displace_set_amplitude (displace, QV_AMPLITUDE_ANGSTROM, NAN);
+  qvg_spin (0.05);
+  print_message ("escape preview: %s\n", qv_export_section_displace_get_preview (displace));
+  assert_int_equal (qv_export_section_displace_get_n_files (displace), 2);
+  assert_int_equal (strlen (qv_export_section_displace_get_message (displace)), 0);
+  print_message ("escape note: %s\n", qv_export_section_displace_get_notes (displace));
+  assert_true (strlen (qv_export_section_displace_get_notes (displace)) > 0);
+  assert_null (qv_window_get_error_dialog (window));
+  close_window (window);
+}
+
 /* Written from the pane's own path (the writer's job after the folder is
  * chosen): every file the manifest lists is there with its SHA-256. */
 static void
@@ -458,6 +492,7 @@ main (void)
     cmocka_unit_test (test_table_written_and_read_back),
     cmocka_unit_test (test_pane_follows_selection),
     cmocka_unit_test (test_scan_preview),
+    cmocka_unit_test (test_escape_pair_of_imaginary_mode),
     cmocka_unit_test (test_scan_written_with_manifest),
     cmocka_unit_test (test_cancel_leaves_no_manifest),
     cmocka_unit_test (test_ensemble_and_stencil_preview),
