@@ -368,13 +368,23 @@ compare_inputs_clear (CompareInputs *in)
   g_strfreev (in->mass_a); g_strfreev (in->mass_b);
 }
 
-/* "A: message" so the user knows which side was wrong. */
+/* "A: message" so the user knows which side was wrong, with the shared
+ * reader's option names spelt as this command spells them for the side. */
 static void
 prefix_side (GError *error, const char *side)
 {
-  char *message = g_strdup_printf ("%s: %s", side, error->message);
+  static const char *const names[] = { "--isotope ", "--mass ", "--hessian " };
+  GString *text = g_string_new (error->message);
+
+  for (guint k = 0; k < G_N_ELEMENTS (names); k++)
+    {
+      g_autofree char *spelt = g_strdup_printf ("%.*s-%c ", (int) strlen (names[k]) - 1, names[k],
+                                                g_ascii_tolower (side[0]));
+      g_string_replace (text, names[k], spelt, 0);
+    }
   g_free (error->message);
-  error->message = message;
+  error->message = g_strdup_printf ("%s: %s", side, text->str);
+  g_string_free (text, TRUE);
 }
 
 int
@@ -440,6 +450,13 @@ qv_cmd_compare (int argc, char **argv)
       status = qv_cli_fail ("compare", error);
       goto out;
     }
+  if (in.demo && (in.hessian_a || in.hessian_b))
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                   "--demo brings its own Hessian: --hessian-a and --hessian-b go with files A and B");
+      status = qv_cli_fail ("compare", error);
+      goto out;
+    }
   if (in.demo ? argc != 1 : argc != 3)
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, "%s",
@@ -497,16 +514,14 @@ qv_cmd_compare (int argc, char **argv)
   modes_a = qv_cli_solve (&args_a, geometry_a, &input_a, &error);
   if (modes_a == NULL)
     {
-      if (error->domain == QV_ERROR && error->code == QV_ERROR_USAGE)
-        prefix_side (error, "A");
+      prefix_side (error, "A");
       status = qv_cli_fail ("compare", error);
       goto out;
     }
   modes_b = qv_cli_solve (&args_b, geometry_b, &input_b, &error);
   if (modes_b == NULL)
     {
-      if (error->domain == QV_ERROR && error->code == QV_ERROR_USAGE)
-        prefix_side (error, "B");
+      prefix_side (error, "B");
       status = qv_cli_fail ("compare", error);
       goto out;
     }

@@ -294,6 +294,24 @@ with qt.tmpdir() as tmp:
                 chk.ok(p["degenerate"], "triangle: pair %d-%d marked degenerate" % (p["mode_a"], p["mode_b"]))
                 chk.close(p["subspace_overlap"], 1.0, "triangle: subspace overlap of the pair", atol=1e-9)
 
+    # ------------------------------------------------ linear molecule
+    # collinear atoms leave the fitted rotation about the axis free; the
+    # degenerate bends (zero here: springs give no bending stiffness) are
+    # then compared by their subspace (common practice: linear molecules
+    # have doubly degenerate bends)
+    lin = np.array([[0.0, 0.0, -1.16], [0.0, 0.0, 0.0], [0.0, 0.0, 1.16]])
+    H_l = qt.spring_hessian(lin, [(0, 1), (1, 2), (0, 2)], [100.0, 100.0, 5.0])
+    R_l = qt.rotation_matrix([0.3, 0.4, 0.5], 0.9)
+    lin_b = lin @ R_l.T + 1.0
+    H_lb = np.kron(np.eye(3), R_l) @ H_l @ np.kron(np.eye(3), R_l).T
+    la, hla = qt.write_inputs(tmp, ["O", "C", "O"], lin, H_l, name="la")
+    lb, hlb = qt.write_inputs(tmp, ["O", "C", "O"], lin_b, H_lb, name="lb")
+    doc = compare_json([la, lb, "--hessian-a", hla, "--hessian-b", hlb, "-u", "eV/A^2"])
+    chk.ok(doc["a"]["n_modes"] == 4, "linear: 3N - 5 = 4 modes")
+    chk.close(doc["alignment"]["rmsd"], 0.0, "linear: RMSD 0 after the fit", atol=1e-9)
+    chk.close([p["subspace_overlap"] for p in doc["matching"]], np.ones(4),
+              "linear: every pair (bends by their subspace) has overlap 1", atol=1e-8)
+
     # ------------------------------------------------------- bad input
     other = list(symbols)
     other[2] = "S"
@@ -308,6 +326,8 @@ with qt.tmpdir() as tmp:
     p = compare([xyz_a, xyz_a, "--hessian-a", hes_a, "--hessian-b", hes_a, "-u", "eV/A^2",
                  "--overlap", "sideways"], expect=1)
     chk.ok("common-mass" in p.stderr_text, "unknown convention: usage error listing them")
+    p = compare(["--demo", "--isotope-a", "99=2"], expect=1)
+    chk.ok("A: --isotope-a 99=2" in p.stderr_text, "bad --isotope-a: named as given: %r" % p.stderr_text)
     p = compare([xyz_a, xyz_a, "--hessian-a", hes_a, "-u", "eV/A^2"], expect=1)
     chk.ok("--hessian-b" in p.stderr_text, "B without a Hessian: usage error naming --hessian-b: %r"
            % p.stderr_text)
