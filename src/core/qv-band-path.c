@@ -415,7 +415,7 @@ qv_band_path_sample (const QvBandPath *p, const double cell[3][3], gsize n_point
   lidx = g_array_new (FALSE, FALSE, sizeof (gsize));
   for (gsize v = 0; v < p->n_vertices; v++)
     {
-      gsize index = q->len;
+      gsize index = dist->len;
       if (v == 0 || p->jump[v])
         {
           gboolean yes = TRUE;
@@ -462,7 +462,7 @@ qv_band_path_sample (const QvBandPath *p, const double cell[3][3], gsize n_point
               g_array_append_val (restart, no);
             }
           at = start + length[v];
-          index = q->len - 1;
+          index = dist->len - 1;
         }
       g_ptr_array_add (labels, g_strdup (p->labels[v]));
       g_array_append_val (ldist, at);
