@@ -3,6 +3,7 @@
 #include <string.h>
 #include <gio/gio.h>
 #include "qv-bundle.h"
+#include "qv-cif.h"
 #include "qv-error.h"
 #include "qv-hessian-file.h"
 #include "qv-input.h"
@@ -99,7 +100,18 @@ load (QvInput *input, const QvInputOptions *o, GError **error)
         return FALSE;
       if (o->hessian_layout && !qv_hessian_layout_parse (o->hessian_layout, &layout, error))
         return FALSE;
-      frames = qv_xyz_read_file (o->geometry, error);
+      if (qv_cif_is_cif_path (o->geometry))
+        {
+          /* A CIF: the first data block with atom sites, expanded by its
+           * symmetry operators into the cell's contents. */
+          QvStructure *crystal = qv_cif_read_file (o->geometry, NULL, error);
+          if (crystal == NULL)
+            return FALSE;
+          frames = g_ptr_array_new_with_free_func ((GDestroyNotify) qv_structure_free);
+          g_ptr_array_add (frames, crystal);
+        }
+      else
+        frames = qv_xyz_read_file (o->geometry, error);
       if (frames == NULL)
         return FALSE;
       input->n_frames = frames->len;
