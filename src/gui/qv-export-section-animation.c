@@ -96,7 +96,7 @@ animation_job_run (gpointer data, const char *directory, gboolean force, const Q
   const QvPictureRequest *r = &job->request;
   g_autoptr(QvOutputDir) dir = NULL;
 
-  if (!qv_progress_report (progress, 0.0, "drawing", error)
+  if (!qv_progress_report (progress, 0.0, N_("Drawing"), error)
       || (dir = qv_output_dir_open (directory, force, error)) == NULL)
     return FALSE;
   if (job->xyz)
@@ -150,7 +150,7 @@ animation_job_run (gpointer data, const char *directory, gboolean force, const Q
         return FALSE;
       g_ptr_array_add (written, g_steal_pointer (&name));
     }
-  return qv_progress_report (progress, 1.0, "done", error);
+  return qv_progress_report (progress, 1.0, N_("Done"), error);
 }
 
 /* ---- the section ---- */

@@ -119,7 +119,7 @@ picture_job_run (gpointer data, const char *directory, gboolean force, const QvP
   PictureJob *job = data;
   g_autoptr(QvOutputDir) dir = NULL;
 
-  if (!qv_progress_report (progress, 0.0, "drawing", error)
+  if (!qv_progress_report (progress, 0.0, N_("Drawing"), error)
       || (dir = qv_output_dir_open (directory, force, error)) == NULL)
     return FALSE;
   if (job->png)
@@ -130,7 +130,7 @@ picture_job_run (gpointer data, const char *directory, gboolean force, const QvP
       g_autofree char *name = g_strdup_printf ("%s.png", job->base);
       gsize length = 0;
 
-      if (rgba == NULL || !qv_progress_report (progress, 0.6, "writing", error))
+      if (rgba == NULL || !qv_progress_report (progress, 0.6, N_("Writing"), error))
         return FALSE;
       text = qv_export_picture_text (&job->request, job->source);
       png = qv_png_encode (rgba, job->request.width, job->request.height, !job->request.options.transparent,
@@ -145,13 +145,13 @@ picture_job_run (gpointer data, const char *directory, gboolean force, const QvP
       g_autofree char *svg = NULL;
       g_autofree char *name = g_strdup_printf ("%s.svg", job->base);
 
-      if (!qv_progress_report (progress, 0.8, "drawing", error)
+      if (!qv_progress_report (progress, 0.8, N_("Drawing"), error)
           || (svg = qv_picture_svg (&job->request, &length, error)) == NULL
           || !qv_output_dir_write (dir, name, svg, length, error))
         return FALSE;
       g_ptr_array_add (written, g_steal_pointer (&name));
     }
-  return qv_progress_report (progress, 1.0, "done", error);
+  return qv_progress_report (progress, 1.0, N_("Done"), error);
 }
 
 /* ---- the section ---- */

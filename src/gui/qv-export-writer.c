@@ -29,6 +29,8 @@ struct _QvExportWriter
   GPtrArray *written;          /* char*, NULL-terminated, of the last job */
   GError *error;               /* of the last job */
   gboolean disposed;
+  guint scroll_id;             /* tick callback keeping it in view */
+  gint64 scroll_until;         /* µs, frame clock time */
 };
 
 G_DEFINE_FINAL_TYPE (QvExportWriter, qv_export_writer, GTK_TYPE_WIDGET)
@@ -131,6 +133,44 @@ write_thread (GTask *task, gpointer source_object, gpointer task_data, GCancella
     g_task_return_error (task, error);
 }
 
+/* ---- keeping the progress and the result in sight ---- */
+
+/* The pane scrolls: while the progress bar slides in and when the result
+ * shows, the writer's bottom is kept in the visible part (the chooser may
+ * have been opened from a long section's last line). */
+static gboolean
+scroll_tick (GtkWidget *widget, GdkFrameClock *clock, gpointer data)
+{
+  QvExportWriter *self = QV_EXPORT_WRITER (widget);
+  GtkWidget *scrolled = gtk_widget_get_ancestor (widget, GTK_TYPE_SCROLLED_WINDOW);
+  GtkWidget *content = scrolled ? gtk_scrolled_window_get_child (GTK_SCROLLED_WINDOW (scrolled)) : NULL;
+  double x = 0.0, y = 0.0;
+
+  if (content && gtk_widget_translate_coordinates (widget, content, 0.0, 0.0, &x, &y))
+    {
+      GtkAdjustment *adj = gtk_scrolled_window_get_vadjustment (GTK_SCROLLED_WINDOW (scrolled));
+      const double page = gtk_adjustment_get_page_size (adj);
+      const double value = gtk_adjustment_get_value (adj);
+      const double bottom = y + gtk_widget_get_height (widget);
+
+      if (bottom > value + page)
+        gtk_adjustment_set_value (adj, MIN (bottom - page, y));
+    }
+  if (gdk_frame_clock_get_frame_time (clock) < self->scroll_until)
+    return G_SOURCE_CONTINUE;
+  self->scroll_id = 0;
+  return G_SOURCE_REMOVE;
+}
+
+static void
+keep_in_view (QvExportWriter *self)
+{
+  /* Long enough for the revealer's slide (250 ms). */
+  self->scroll_until = g_get_monotonic_time () + 400 * G_TIME_SPAN_MILLISECOND;
+  if (self->scroll_id == 0)
+    self->scroll_id = gtk_widget_add_tick_callback (GTK_WIDGET (self), scroll_tick, NULL, NULL);
+}
+
 /* ---- the result ---- */
 
 static void
@@ -170,6 +210,7 @@ show_result (QvExportWriter *self)
   gtk_widget_set_visible (GTK_WIDGET (self->files_label), n > 0);
   gtk_widget_set_visible (self->open_button, g_file_test (self->directory, G_FILE_TEST_IS_DIR));
   gtk_widget_set_visible (self->result_box, TRUE);
+  keep_in_view (self);
 }
 
 static void
@@ -201,6 +242,8 @@ write_done (GObject *source, GAsyncResult *result, gpointer data)
   gtk_revealer_set_reveal_child (self->progress_revealer, FALSE);
   update_buttons (self);
   show_result (self);
+  if (gtk_widget_has_focus (self->cancel_button) && gtk_widget_get_visible (self->open_button))
+    gtk_widget_grab_focus (self->open_button);
   if (error && !g_error_matches (error, QV_ERROR, QV_ERROR_CANCELLED))
     {
       GtkRoot *root = gtk_widget_get_root (GTK_WIDGET (self));
@@ -250,6 +293,14 @@ qv_export_writer_write_to (QvExportWriter *self, const char *directory, gboolean
   gtk_progress_bar_set_text (self->progress_bar, _("Starting"));
   gtk_revealer_set_reveal_child (self->progress_revealer, TRUE);
   update_buttons (self);
+  keep_in_view (self);
+  /* Write… is insensitive now: the keyboard goes on from Cancel. */
+  {
+    GtkRoot *root = gtk_widget_get_root (GTK_WIDGET (self));
+    GtkWidget *focus = root ? gtk_root_get_focus (root) : NULL;
+    if (root && (focus == NULL || focus == self->write_button))
+      gtk_widget_grab_focus (self->cancel_button);
+  }
 
   task = g_task_new (self, NULL, write_done, NULL);
   g_task_set_source_tag (task, qv_export_writer_write_to);
@@ -409,6 +460,11 @@ qv_export_writer_dispose (GObject *object)
   /* A running job holds a reference: it finishes its current file, stops,
    * and its result is shown nowhere. */
   self->disposed = TRUE;
+  if (self->scroll_id)
+    {
+      gtk_widget_remove_tick_callback (GTK_WIDGET (self), self->scroll_id);
+      self->scroll_id = 0;
+    }
   if (self->cancellable)
     g_cancellable_cancel (self->cancellable);
   gtk_widget_dispose_template (GTK_WIDGET (object), QV_TYPE_EXPORT_WRITER);
