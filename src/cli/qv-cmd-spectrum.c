@@ -4,6 +4,7 @@
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
+#include <unistd.h>
 #include "qv-bundle.h"
 #include "qv-cli-solve.h"
 #include "qv-config.h"
@@ -494,6 +495,12 @@ qv_cmd_spectrum (int argc, char **argv)
       goto fail;
     }
 #endif
+  if (format == OUT_PNG && output == NULL && isatty (STDOUT_FILENO))
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                   "a PNG is not for a terminal: give -o FILE.png, or redirect standard output");
+      goto fail;
+    }
   if ((dipole_units && !dipole_file) || (alpha_units && !alpha_file))
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, "%s is given without %s",
