@@ -23,6 +23,7 @@ static const Command commands[] = {
   { "ensemble", qv_cmd_ensemble, "thermally sampled structures with velocities (Wigner)" },
   { "stencil", qv_cmd_stencil, "displaced structures for a Hessian from forces" },
   { "collect", qv_cmd_collect, "assemble the Hessian from a stencil's forces" },
+  { "bands", qv_cmd_bands, "phonon dispersion along a path from a supercell Hessian" },
   { "spectrum", qv_cmd_spectrum, "IR and Raman intensities and the broadened spectrum (CSV, JSON, PNG, SVG)" },
   { "compare", qv_cmd_compare, "overlap and best matching of two mode sets; Duschinsky J and K" },
 #ifdef QV_HAVE_RENDER

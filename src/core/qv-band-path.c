@@ -225,13 +225,30 @@ dot3 (const double *a, const double *b)
 static gboolean
 match_metric (const double reduced[3][3], const double g[3][3], double tol, int v[3][3])
 {
+  static const int order[5] = { 0, 1, -1, 2, -2 };
   double cand[124][3];
   int coef[124][3], n = 0;
 
-  for (int a = -2; a <= 2; a++)
-    for (int b = -2; b <= 2; b++)
-      for (int c = -2; c <= 2; c++)
+  /* a cell already in the standard setting keeps its own vectors (and the
+   * paper's coordinates) */
+  {
+    gboolean same = TRUE;
+    for (int i = 0; i < 3; i++)
+      for (int j = 0; j < 3; j++)
+        same = same && fabs (dot3 (reduced[i], reduced[j]) - g[i][j]) <= tol;
+    if (same)
+      {
+        memset (v, 0, 9 * sizeof (int));
+        v[0][0] = v[1][1] = v[2][2] = 1;
+        return TRUE;
+      }
+  }
+  /* then small positive coefficients first */
+  for (int ia = 0; ia < 5; ia++)
+    for (int ib = 0; ib < 5; ib++)
+      for (int ic = 0; ic < 5; ic++)
         {
+          int a = order[ia], b = order[ib], c = order[ic];
           if (a == 0 && b == 0 && c == 0)
             continue;
           coef[n][0] = a; coef[n][1] = b; coef[n][2] = c;
@@ -239,7 +256,8 @@ match_metric (const double reduced[3][3], const double g[3][3], double tol, int 
             cand[n][x] = a * reduced[0][x] + b * reduced[1][x] + c * reduced[2][x];
           n++;
         }
-  for (int i = 0; i < n; i++)
+  for (int pass = 0; pass < 2; pass++)
+    for (int i = 0; i < n; i++)
     {
       if (fabs (dot3 (cand[i], cand[i]) - g[0][0]) > tol)
         continue;
@@ -259,7 +277,7 @@ match_metric (const double reduced[3][3], const double g[3][3], double tol, int 
               memcpy (m[1], coef[j], sizeof m[1]);
               memcpy (m[2], coef[k], sizeof m[2]);
               gint64 det = qv_supercell_matrix_det (m);
-              if (det == 1 || det == -1)
+              if (det == (pass == 0 ? 1 : -1))
                 {
                   memcpy (v, m, sizeof m);
                   return TRUE;
@@ -283,74 +301,85 @@ qv_band_path_default (const double cell[3][3], double tolerance, GError **error)
       g_set_error (error, QV_ERROR, QV_ERROR_INPUT, "the cell has zero volume");
       return NULL;
     }
-  qv_lattice_reduce (cell, reduced, t);
-  for (gsize li = 0; li < G_N_ELEMENTS (lattices); li++)
+  for (int attempt = 0; attempt < 2; attempt++)
     {
-      const Lattice *lat = &lattices[li];
-      /* candidate lattice parameters: a from the volume (cubic), or a from
-       * every short vector and c from the volume (hexagonal) */
-      for (int trial = 0; trial < (lat->volume_factor > 0 ? 1 : 3); trial++)
-        {
-          double a, c = 1, std[3][3], g[3][3];
-          int v[3][3];
-          if (lat->volume_factor > 0)
-            a = cbrt (volume / lat->volume_factor);
-          else
-            {
-              a = sqrt (dot3 (reduced[trial], reduced[trial]));
-              c = volume / (S3 * a * a);
-            }
-          for (int i = 0; i < 3; i++)
-            for (int x = 0; x < 3; x++)
-              std[i][x] = lat->basis[i][x] * (x == 2 && lat->volume_factor == 0 ? c : a);
-          for (int i = 0; i < 3; i++)
-            for (int j = 0; j < 3; j++)
-              g[i][j] = dot3 (std[i], std[j]);
-          if (!match_metric (reduced, g, tolerance * MAX (a, c) * MAX (a, c), v))
-            continue;
+    /* first the cell as given (identity), then its LLL-reduced basis */
+    if (attempt == 0)
+      {
+        memcpy (reduced, cell, sizeof reduced);
+        memset (t, 0, sizeof t);
+        t[0][0] = t[1][1] = t[2][2] = 1;
+      }
+    else
+      qv_lattice_reduce (cell, reduced, t);
+    for (gsize li = 0; li < G_N_ELEMENTS (lattices); li++)
+      {
+        const Lattice *lat = &lattices[li];
+        /* candidate lattice parameters: a from the volume (cubic), or a from
+         * every short vector and c from the volume (hexagonal) */
+        for (int trial = 0; trial < (lat->volume_factor > 0 ? 1 : 3); trial++)
           {
-            /* a_std = V · reduced = V T · cell; f_cell = (V T)⁻¹ f_std */
-            int w[3][3], winv[3][3];
-            gint64 det;
-            QvBandPath *p = g_new0 (QvBandPath, 1);
-            GPtrArray *labels = g_ptr_array_new ();
-            GArray *q = g_array_new (FALSE, FALSE, sizeof (double));
-            GArray *jump = g_array_new (FALSE, FALSE, sizeof (gboolean));
-            gboolean jumped = TRUE;
-
-            for (int i = 0; i < 3; i++)
-              for (int j = 0; j < 3; j++)
-                w[i][j] = v[i][0] * t[0][j] + v[i][1] * t[1][j] + v[i][2] * t[2][j];
-            det = qv_supercell_matrix_det (w);
-            for (int i = 0; i < 3; i++)
-              for (int j = 0; j < 3; j++)
-                {
-                  int r0 = (j + 1) % 3, r1 = (j + 2) % 3, c0 = (i + 1) % 3, c1 = (i + 2) % 3;
-                  winv[i][j] = (int) (((gint64) w[r0][c0] * w[r1][c1] - (gint64) w[r0][c1] * w[r1][c0]) / det);
-                }
-            for (const char *s = lat->path; *s; s++)
+            double a, c = 1, std[3][3], g[3][3];
+            int v[3][3];
+            if (lat->volume_factor > 0)
+              a = cbrt (volume / lat->volume_factor);
+            else
               {
-                if (*s == '-')
-                  continue;
-                if (*s == '|')
-                  {
-                    jumped = TRUE;
-                    continue;
-                  }
-                for (const Point *pt = lat->points; pt->label; pt++)
-                  if (pt->label[0] == *s)
-                    {
-                      double f[3];
-                      for (int i = 0; i < 3; i++)
-                        f[i] = winv[i][0] * pt->f[0] + winv[i][1] * pt->f[1] + winv[i][2] * pt->f[2] + 0.0;
-                      path_append (p, labels, q, jump, pt->label, f, jumped);
-                      jumped = FALSE;
-                    }
+                a = sqrt (dot3 (reduced[trial], reduced[trial]));
+                c = volume / (S3 * a * a);
               }
-            p->lattice = g_strdup (lat->name);
-            return path_finish (p, labels, q, jump);
+            for (int i = 0; i < 3; i++)
+              for (int x = 0; x < 3; x++)
+                std[i][x] = lat->basis[i][x] * (x == 2 && lat->volume_factor == 0 ? c : a);
+            for (int i = 0; i < 3; i++)
+              for (int j = 0; j < 3; j++)
+                g[i][j] = dot3 (std[i], std[j]);
+            if (!match_metric (reduced, g, tolerance * MAX (a, c) * MAX (a, c), v))
+              continue;
+            {
+              /* a_std = V · reduced = V T · cell; f_cell = (V T)⁻¹ f_std */
+              int w[3][3], winv[3][3];
+              gint64 det;
+              QvBandPath *p = g_new0 (QvBandPath, 1);
+              GPtrArray *labels = g_ptr_array_new ();
+              GArray *q = g_array_new (FALSE, FALSE, sizeof (double));
+              GArray *jump = g_array_new (FALSE, FALSE, sizeof (gboolean));
+              gboolean jumped = TRUE;
+
+              for (int i = 0; i < 3; i++)
+                for (int j = 0; j < 3; j++)
+                  w[i][j] = v[i][0] * t[0][j] + v[i][1] * t[1][j] + v[i][2] * t[2][j];
+              det = qv_supercell_matrix_det (w);
+              for (int i = 0; i < 3; i++)
+                for (int j = 0; j < 3; j++)
+                  {
+                    int r0 = (j + 1) % 3, r1 = (j + 2) % 3, c0 = (i + 1) % 3, c1 = (i + 2) % 3;
+                    winv[i][j] = (int) (((gint64) w[r0][c0] * w[r1][c1] - (gint64) w[r0][c1] * w[r1][c0]) / det);
+                  }
+              for (const char *s = lat->path; *s; s++)
+                {
+                  if (*s == '-')
+                    continue;
+                  if (*s == '|')
+                    {
+                      jumped = TRUE;
+                      continue;
+                    }
+                  for (const Point *pt = lat->points; pt->label; pt++)
+                    if (pt->label[0] == *s)
+                      {
+                        double f[3];
+                        for (int i = 0; i < 3; i++)
+                          f[i] = winv[i][0] * pt->f[0] + winv[i][1] * pt->f[1] + winv[i][2] * pt->f[2] + 0.0;
+                        path_append (p, labels, q, jump, pt->label, f, jumped);
+                        jumped = FALSE;
+                      }
+                }
+              p->lattice = g_strdup (lat->name);
+              return path_finish (p, labels, q, jump);
+            }
           }
-        }
+      }
     }
   g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
                "no default path for this lattice: default paths exist for cubic P, F, I and "

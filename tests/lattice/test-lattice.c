@@ -598,6 +598,16 @@ test_paths (void **state)
   def = qv_band_path_default (p->cell, 0, &error);
   assert_non_null (def);
   assert_string_equal (def->lattice, "cF");
+  /* in the paper's own setting the paper's coordinates come back:
+   * Γ–X–W–K–Γ–L–U–W–L–K|U–X, X = (½, 0, ½), K = (3/8, 3/8, 3/4) */
+  assert_int_equal (def->n_vertices, 12);
+  assert_string_equal (def->labels[1], "X");
+  assert_close (def->q[3], 0.5, 0, "X a");
+  assert_close (def->q[4], 0, 0, "X b");
+  assert_close (def->q[5], 0.5, 0, "X c");
+  assert_string_equal (def->labels[3], "K");
+  assert_close (def->q[11], 0.75, 0, "K c");
+  assert_true (def->jump[10]);
   {
     double cell2[3][3];
     g_autoptr(QvBandPath) d2 = NULL;

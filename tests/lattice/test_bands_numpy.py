@@ -1,0 +1,226 @@
+#!/usr/bin/python3
+"""test_bands_numpy.py — `quaver bands --format json` against an independent
+NumPy dynamical matrix.
+
+A CsCl-type crystal (simple cubic, two sites) with invented spring constants:
+the supercell Hessian is built here from the springs, the supercell's atoms
+shuffled and shifted by supercell vectors, and the dispersion computed here
+straight from the springs of the infinite crystal,
+
+    D_kk'(q) = sum_{springs k->k' at delta} -K(delta) e^{iq.delta} / sqrt(m_k m_k')
+             + delta_kk' sum_{springs from k} K(delta) / m_k,
+
+(the harmonic-crystal equations of motion, e.g. Ashcroft & Mermin, Solid State
+Physics, ch. 22, from memory), solved by numpy.linalg.eigvalsh. Constants are
+CODATA 2018 through scipy.constants.
+
+SPDX-License-Identifier: GPL-3.0-or-later
+"""
+import json
+import os
+import subprocess
+import sys
+import tempfile
+
+import numpy as np
+import scipy.constants as sc
+
+QUAVER = os.environ.get("QUAVER") or os.path.join(
+    os.environ.get("QV_BUILD_ROOT", "/work/main/build"), "src", "cli", "quaver")
+
+# sqrt(eV/(A^2 u)) as a wavenumber in cm^-1 (REFERENCES.md: 521.470 898)
+M_U = sc.physical_constants["atomic mass constant"][0]
+CM1 = np.sqrt(sc.e / (1e-20 * M_U)) / (2 * np.pi * sc.c * 100)
+# 1 kJ/mol/A^2 in eV/A^2
+KJ_MOL = 1000.0 / sc.N_A / sc.e
+
+A = 3.2                                   # cubic lattice constant, A
+SPECIES = ["Cs", "Cl"]
+MASSES = np.array([132.905, 35.453])      # u, written into the file
+TAU = np.array([[0.0, 0.0, 0.0], [0.5, 0.5, 0.5]]) * A
+CELL = np.eye(3) * A
+# shells: (distance, species pair or None for any, longitudinal, transverse) eV/A^2
+SHELLS = [
+    (A * np.sqrt(3) / 2, None, 2.5, 0.3),
+    (A, (0, 0), 1.2, 0.1),
+    (A, (1, 1), 0.8, -0.05),
+]
+
+failures = []
+
+
+def check(condition, message):
+    if not condition:
+        failures.append(message)
+        print("FAIL:", message)
+
+
+def spring(delta, k1, k2):
+    """3x3 spring matrix between sites k1, k2 at separation delta, or None."""
+    length = np.linalg.norm(delta)
+    for dist, pair, cl, ct in SHELLS:
+        if abs(length - dist) > 1e-6:
+            continue
+        if pair is not None and tuple(sorted((k1, k2))) != pair:
+            continue
+        e = np.outer(delta, delta) / length ** 2
+        return cl * e + ct * (np.eye(3) - e)
+    return None
+
+
+def d_of_q(qcart):
+    """Dynamical matrix of the infinite crystal, from the springs."""
+    d = np.zeros((6, 6), complex)
+    for k in range(2):
+        for k2 in range(2):
+            for n in np.ndindex(5, 5, 5):
+                r = (np.array(n) - 2) @ CELL
+                delta = r + TAU[k2] - TAU[k]
+                if np.linalg.norm(delta) < 1e-9:
+                    continue
+                kmat = spring(delta, k, k2)
+                if kmat is None:
+                    continue
+                d[3 * k:3 * k + 3, 3 * k2:3 * k2 + 3] -= kmat * np.exp(1j * qcart @ delta) / np.sqrt(MASSES[k] * MASSES[k2])
+                d[3 * k:3 * k + 3, 3 * k:3 * k + 3] += kmat / MASSES[k]
+    return d
+
+
+def wavenumbers(eigenvalues):
+    return np.sign(eigenvalues) * np.sqrt(np.abs(eigenvalues)) * CM1
+
+
+def xyz(path, cell, species, masses, positions):
+    with open(path, "w") as f:
+        f.write("%d\n" % len(species))
+        f.write('Lattice="%s" pbc="T T T" Properties=species:S:1:pos:R:3:masses:R:1\n'
+                % " ".join("%.12f" % x for x in cell.ravel()))
+        for s, m, p in zip(species, masses, positions):
+            f.write("%s %.12f %.12f %.12f %.6f\n" % (s, p[0], p[1], p[2], m))
+
+
+def supercell(n):
+    """The n x n x n supercell in the standard order (n3 fastest, sites inside)."""
+    species, masses, pos = [], [], []
+    for l in np.ndindex(n, n, n):
+        for k in range(2):
+            species.append(SPECIES[k])
+            masses.append(MASSES[k])
+            pos.append(np.array(l) @ CELL + TAU[k])
+    return species, np.array(masses), np.array(pos), CELL * n
+
+
+def hessian(sites, pos, scell):
+    """Exact Hessian of the periodic supercell, eV/A^2."""
+    ns = len(pos)
+    h = np.zeros((3 * ns, 3 * ns))
+    for i in range(ns):
+        for j in range(i + 1, ns):
+            for n in np.ndindex(3, 3, 3):
+                delta = pos[j] + (np.array(n) - 1) @ scell - pos[i]
+                kmat = spring(delta, sites[i], sites[j])
+                if kmat is None:
+                    continue
+                h[3 * i:3 * i + 3, 3 * i:3 * i + 3] += kmat
+                h[3 * j:3 * j + 3, 3 * j:3 * j + 3] += kmat
+                h[3 * i:3 * i + 3, 3 * j:3 * j + 3] -= kmat
+                h[3 * j:3 * j + 3, 3 * i:3 * i + 3] -= kmat
+    return h
+
+
+def run(args, expect=0):
+    p = subprocess.run([QUAVER, "bands"] + args, capture_output=True, text=True)
+    check(p.returncode == expect, "exit %d (expected %d) for %s: %s" % (p.returncode, expect, args, p.stderr))
+    return p
+
+
+def compare(doc, what):
+    recip = 2 * np.pi * np.linalg.inv(CELL).T          # rows b_i, a_i.b_j = 2 pi delta_ij
+    # where the path jumps ("X|M"), the point before and the label's point
+    # share one distance
+    jumps = {l["index"] for l in doc["labels"] if "|" in l["label"]}
+    worst = 0.0
+    prev, dist = None, 0.0
+    for k, point in enumerate(doc["points"]):
+        q = np.array(point["q"]) @ recip
+        want = np.sort(wavenumbers(np.linalg.eigvalsh(d_of_q(q))))
+        got = np.sort(np.array(point["wavenumbers"]))
+        # zeros at Gamma are square roots of round-off: compare omega^2
+        scale = max(1.0, np.max(np.abs(want)))
+        diff = np.abs(np.sign(got) * got ** 2 - np.sign(want) * want ** 2) / scale ** 2
+        worst = max(worst, float(np.max(diff)))
+        if prev is not None and k not in jumps:
+            dist += np.linalg.norm(q - prev)
+        prev = q
+        check(abs(point["distance"] - dist) < 1e-9,
+              "%s: point %d at distance %.9f, NumPy %.9f" % (what, k, point["distance"], dist))
+    print("%s: %d q points, largest relative difference of omega^2 %.2e" % (what, len(doc["points"]), worst))
+    check(worst < 1e-10, "%s: D(q) spectra differ from NumPy by %.3g" % (what, worst))
+
+
+def main():
+    rng = np.random.default_rng(11)
+    with tempfile.TemporaryDirectory() as tmp:
+        prim = os.path.join(tmp, "prim.xyz")
+        xyz(prim, CELL, SPECIES, MASSES, TAU)
+        species, masses, pos, scell = supercell(3)
+        sites = [0 if s == "Cs" else 1 for s in species]
+        h = hessian(sites, pos, scell)
+        # the springs obey the sum rule: sum over atoms j of H[row, (j, beta)] = 0
+        check(np.max(np.abs(h.reshape(3 * len(pos), -1, 3).sum(axis=1))) < 1e-9,
+              "model Hessian obeys the sum rule")
+
+        # standard order, --supercell 3x3x3, Hessian in kJ/mol/A^2
+        hess_std = os.path.join(tmp, "std.hess")
+        np.savetxt(hess_std, h / KJ_MOL)
+        path = "G 0 0 0; X 0 0.5 0; M 0.5 0.5 0; G; R 0.5 0.5 0.5"
+        p = run([prim, "--supercell", "3x3x3", "-H", hess_std, "-u", "kJ/mol/A^2",
+                 "--path", path, "--points", "80", "-f", "json"])
+        if p.returncode == 0:
+            doc = json.loads(p.stdout)
+            compare(doc, "standard order")
+            labels = [l["label"] for l in doc["labels"]]
+            check(labels == ["G", "X", "M", "G", "R"], "labels %s" % labels)
+            # |G-X| = pi/a, |X-M| = pi/a, |M-G| = sqrt(2) pi/a, |G-R| = sqrt(3) pi/a (with 2 pi)
+            want = np.cumsum([0, 1, 1, np.sqrt(2), np.sqrt(3)]) * np.pi / A
+            got = np.array([l["distance"] for l in doc["labels"]])
+            check(np.max(np.abs(got - want)) < 1e-12, "label distances %s vs %s" % (got, want))
+            check(len(doc["points"][0]["wavenumbers"]) == 6, "six branches")
+
+        # shuffled atoms, each shifted by a random supercell vector, .npy Hessian
+        perm = rng.permutation(len(pos))
+        shift = rng.integers(-1, 2, size=(len(pos), 3)) @ scell
+        pos_s = pos[perm] + shift
+        idx = np.concatenate([[3 * i, 3 * i + 1, 3 * i + 2] for i in perm])
+        h_s = h[np.ix_(idx, idx)]
+        sc_xyz = os.path.join(tmp, "sc.xyz")
+        xyz(sc_xyz, scell, [species[i] for i in perm], masses[perm], pos_s)
+        hess_npy = os.path.join(tmp, "sc.npy")
+        np.save(hess_npy, h_s)
+        p = run([prim, "-S", sc_xyz, "-H", hess_npy, "-u", "eV/A^2", "--points", "120", "-f", "json"])
+        if p.returncode == 0:
+            doc = json.loads(p.stdout)
+            check(doc["lattice"] == "cP", "default path for simple cubic: %s" % doc["lattice"])
+            compare(doc, "shuffled, default path")
+            acoustic = doc["gamma_acoustic_before_sum_rule"]
+            check(max(abs(x) for x in acoustic) < 1e-3, "acoustic before the sum rule %s" % acoustic)
+
+        # a supercell with one atom missing is reported, not folded
+        sc_bad = os.path.join(tmp, "bad.xyz")
+        xyz(sc_bad, scell, [species[i] for i in perm][:-1], masses[perm][:-1], pos_s[:-1])
+        p = run([prim, "-S", sc_bad, "-H", hess_npy, "-u", "eV/A^2"], expect=2)
+        check("wrong supercell size" in p.stderr, "wrong size message: %s" % p.stderr)
+        # a path without coordinates is a usage error that says what to write
+        p = run([prim, "-S", sc_xyz, "-H", hess_npy, "-u", "eV/A^2", "--path", "G 0 0 0; Q"], expect=1)
+        check("LABEL QA QB QC" in p.stderr or "Q QA QB QC" in p.stderr, "path message: %s" % p.stderr)
+        # units are never guessed
+        p = run([prim, "-S", sc_xyz, "-H", hess_npy], expect=1)
+
+    if failures:
+        print("%d check(s) failed" % len(failures))
+        sys.exit(1)
+    print("all checks passed")
+
+
+if __name__ == "__main__":
+    main()
