@@ -1,6 +1,7 @@
 /* qv-cli-solve.c — the input and solver options shared by table and
  * displace; `quaver modes` keeps its own (identical) spelling.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <math.h>
 #include <string.h>
 #include <gio/gio.h>
 #include "qv-cli-solve.h"
@@ -30,9 +31,63 @@ qv_cli_solve_add_entries (GOptionContext *context, QvCliSolveArgs *a)
     { "mass", 'm', 0, G_OPTION_ARG_STRING_ARRAY, &a->mass_overrides,
       "Give an atom a mass in u (repeatable)", "ATOM=MASS" },
     { "demo", 0, 0, G_OPTION_ARG_NONE, &a->demo, "Use the built-in demo (invented data) as input", NULL },
+    { "symmetry-tolerance", 0, 0, G_OPTION_ARG_DOUBLE, &a->symmetry_tolerance,
+      "Largest distance in A between an atom's image and its partner for the point group (default 0.01)", "A" },
+    { "symmetrize", 0, 0, G_OPTION_ARG_NONE, &a->symmetrize,
+      "Average the geometry and the Hessian over the point group before solving", NULL },
     { NULL }
   };
   g_option_context_add_main_entries (context, entries, NULL);
+}
+
+/* Finds the point group (modes and table, or --symmetrize) and with
+ * --symmetrize averages the geometry and the Hessian over it. A molecule
+ * whose group cannot be found is still solved, with a warning. */
+static gboolean
+symmetry_before (QvCliSolveArgs *a, QvInput *input, GError **error)
+{
+  g_autoptr(GError) local = NULL;
+
+  if (a->symmetry_tolerance < 0 || a->symmetry_tolerance >= 1 || isnan (a->symmetry_tolerance))
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
+                   "--symmetry-tolerance must be a distance in A above 0 and below 1 (got %g); "
+                   "%g suits optimised geometries", a->symmetry_tolerance, QV_SYMMETRY_DEFAULT_TOLERANCE);
+      return FALSE;
+    }
+  if (!a->want_symmetry && !a->symmetrize)
+    return TRUE;
+  if (qv_structure_is_periodic (input->structure))
+    {
+      if (a->symmetrize)
+        {
+          g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
+                       "--symmetrize works on molecules (point groups); this structure is periodic");
+          return FALSE;
+        }
+      return TRUE;
+    }
+  a->point_group = qv_point_group_detect (input->structure, a->symmetry_tolerance, &local);
+  if (a->point_group == NULL)
+    {
+      if (a->symmetrize)
+        {
+          g_propagate_prefixed_error (error, g_steal_pointer (&local), "--symmetrize: ");
+          return FALSE;
+        }
+      g_printerr ("%s: warning: no point group: %s\n", g_get_prgname (), local->message);
+      return TRUE;
+    }
+  if (a->symmetrize)
+    {
+      qv_point_group_symmetrize_structure (a->point_group, input->structure);
+      if (input->hessian)
+        qv_point_group_symmetrize_hessian (a->point_group, input->hessian);
+      else if (input->modes)
+        g_printerr ("%s: warning: --symmetrize: the input has modes but no Hessian; only the "
+                    "geometry was averaged\n", g_get_prgname ());
+    }
+  return TRUE;
 }
 
 QvModeSet *
@@ -65,6 +120,8 @@ qv_cli_solve (QvCliSolveArgs *a, const char *geometry, QvInput **input_out, GErr
   input = qv_cli_input_load (&io, error);
   if (input == NULL)
     return NULL;
+  if (!symmetry_before (a, input, error))
+    return NULL;
   if (input->hessian)
     {
       solve.lowest = (gsize) a->lowest;
@@ -75,6 +132,12 @@ qv_cli_solve (QvCliSolveArgs *a, const char *geometry, QvInput **input_out, GErr
     }
   else
     modes = g_steal_pointer (&input->modes);
+  if (a->point_group && a->want_symmetry)
+    {
+      a->symmetry = qv_symmetry_report_new (a->point_group, modes);
+      if (a->symmetrize)
+        qv_symmetry_align_degenerate (a->symmetry, modes);
+    }
   *input_out = g_steal_pointer (&input);
   return modes;
 }
@@ -121,10 +184,18 @@ qv_cli_solve_report (QvModeReport *report, const QvInput *input, const QvModeSet
 }
 
 void
+qv_cli_solve_report_symmetry (QvModeReport *report, const QvCliSolveArgs *a)
+{
+  report->symmetry = a->symmetry;
+}
+
+void
 qv_cli_solve_args_clear (QvCliSolveArgs *a)
 {
   g_free (a->hessian); g_free (a->units); g_free (a->layout); g_free (a->masses);
   g_free (a->projection); g_free (a->method);
   g_strfreev (a->isotopes); g_strfreev (a->mass_overrides);
+  qv_symmetry_report_free (a->symmetry);
+  qv_point_group_free (a->point_group);
   memset (a, 0, sizeof *a);
 }

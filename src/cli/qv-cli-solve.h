@@ -8,6 +8,8 @@
 #include "qv-manifest.h"
 #include "qv-mode-set.h"
 #include "qv-mode-table.h"
+#include "qv-point-group.h"
+#include "qv-symmetry-modes.h"
 
 G_BEGIN_DECLS
 
@@ -18,11 +20,19 @@ typedef struct {
   gboolean demo;
   gboolean all_modes;   /* set before adding the entries: the command needs
                            every mode, so --lowest is not offered */
+  double symmetry_tolerance;   /* --symmetry-tolerance, Å (0: the default) */
+  gboolean symmetrize;         /* --symmetrize: average geometry and Hessian
+                                  over the point group before solving */
+  gboolean want_symmetry;      /* set by the command: find the point group and
+                                  label the modes (modes, table) */
+  QvPointGroup *point_group;   /* out: the group found, or NULL */
+  QvSymmetryReport *symmetry;  /* out: each mode's species, or NULL */
 } QvCliSolveArgs;
 
 /* Adds --hessian, --hessian-units, --hessian-layout, --project, --lowest,
- * --lowest-method, --masses, --isotope, --mass and --demo (spelt and
- * explained as in `quaver modes`) to @context's main group. */
+ * --lowest-method, --masses, --isotope, --mass, --demo,
+ * --symmetry-tolerance and --symmetrize (spelt and explained as in `quaver
+ * modes`) to @context's main group. */
 void qv_cli_solve_add_entries (GOptionContext *context, QvCliSolveArgs *args);
 
 /* Reads @geometry (NULL with --demo) and solves (or takes the bundle's
@@ -37,6 +47,9 @@ gboolean qv_cli_solve_hash_inputs (const QvCliSolveArgs *args, const char *geome
 
 /* The mode-table report of what qv_cli_solve read and solved. */
 void qv_cli_solve_report (QvModeReport *report, const QvInput *input, const QvModeSet *modes);
+/* The point group and species qv_cli_solve found (want_symmetry) into
+ * @report. */
+void qv_cli_solve_report_symmetry (QvModeReport *report, const QvCliSolveArgs *args);
 
 void qv_cli_solve_args_clear (QvCliSolveArgs *args);
 

@@ -148,6 +148,7 @@ qv_cmd_modes (int argc, char **argv)
       goto out;
     }
 
+  solve.want_symmetry = TRUE;
   modes = qv_cli_solve (&solve, argc == 2 ? argv[1] : NULL, &input, &error);
   if (modes == NULL)
     {
@@ -156,6 +157,7 @@ qv_cmd_modes (int argc, char **argv)
     }
 
   qv_cli_solve_report (&report, input, modes);
+  qv_cli_solve_report_symmetry (&report, &solve);
   report.level = (guint) level;
   report.temperature = temperature;
   report.vectors = vectors;

@@ -113,6 +113,8 @@ qv_cmd_table (int argc, char **argv)
       goto out;
     }
 
+  for (gsize i = 0; i < layout.n_columns; i++)
+    solve.want_symmetry |= columns[i] == QV_COLUMN_SYMMETRY;
   modes = qv_cli_solve (&solve, argc == 2 ? argv[1] : NULL, &input, &error);
   if (modes == NULL)
     {
@@ -120,6 +122,7 @@ qv_cmd_table (int argc, char **argv)
       goto out;
     }
   qv_cli_solve_report (&report, input, modes);
+  qv_cli_solve_report_symmetry (&report, &solve);
   report.level = (guint) level;
   report.temperature = temperature;
   layout.report = &report;

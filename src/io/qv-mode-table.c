@@ -79,6 +79,26 @@ tidy (double x, double resolution)
   return fabs (x) < 0.5 * resolution ? 0.0 : x;
 }
 
+/* Mode k's species, or NULL when the report has no symmetry. */
+static const QvModeSymmetry *
+mode_symmetry (const QvModeReport *r, gsize k)
+{
+  return r->symmetry && k < r->symmetry->n_modes ? &r->symmetry->modes[k] : NULL;
+}
+
+/* "C3v (tolerance 0.01 A, symmetry number 3)" for headers. */
+static void
+append_point_group (GString *out, const char *prefix, const QvModeReport *r)
+{
+  const QvPointGroup *g;
+  if (r->symmetry == NULL)
+    return;
+  g = r->symmetry->group;
+  g_string_append_printf (out, "%spoint group: %s (tolerance %g A, largest deviation %.2g A, "
+                          "symmetry number %u)\n", prefix, g->name, g->tolerance, g->max_deviation,
+                          g->symmetry_number);
+}
+
 static const char *
 projection_description (const QvModeSet *m)
 {
@@ -160,12 +180,16 @@ format_text (const QvModeReport *r)
   char qhead[32];
 
   append_header (out, "# ", r);
+  append_point_group (out, "# ", r);
   for (char **w = warnings; *w; w++)
     g_string_append_printf (out, "warning: %s\n", *w);
+  for (char **w = r->symmetry ? r->symmetry->warnings : NULL; w && *w; w++)
+    g_string_append_printf (out, "warning: %s\n", *w);
   g_snprintf (qhead, sizeof qhead, "Q_tp(v=%u)", r->level);
-  g_string_append_printf (out, "%5s %12s %9s %11s %10s %9s %5s %9s %11s %6s\n",
+  g_string_append_printf (out, "%5s %12s %9s %11s %10s %9s %5s %9s %11s %6s%s\n",
                           "mode", "frequency", "red.mass", "force const", qhead,
-                          "max disp", "atom", "RMS(T)", "moves most", "rot.mix");
+                          "max disp", "atom", "RMS(T)", "moves most", "rot.mix",
+                          r->symmetry ? "  sym" : "");
   g_string_append_printf (out, "%5s %12s %9s %11s %10s %9s %5s %9s %11s %6s\n",
                           "", qv_frequency_unit_name (r->unit), "u", "mdyn/A", "u^1/2 A",
                           "A", "", "A", "", "%");
@@ -200,9 +224,12 @@ format_text (const QvModeReport *r)
         g_snprintf (mix, sizeof mix, "%.1f", tidy (100.0 * row.mix_rotation, 0.1));
       else
         g_strlcpy (mix, "-", sizeof mix);
-      g_string_append_printf (out, "%5" G_GSIZE_FORMAT " %12s %9.4f %11.4f %10s %9s %5s %9s %11s %6s\n",
+      g_string_append_printf (out, "%5" G_GSIZE_FORMAT " %12s %9.4f %11.4f %10s %9s %5s %9s %11s %6s",
                               k + 1, freq, row.reduced_mass, row.force_constant, q, d, atom,
                               rms, main_atom, mix);
+      if (mode_symmetry (r, k))
+        g_string_append_printf (out, "  %s", mode_symmetry (r, k)->label);
+      g_string_append_c (out, '\n');
     }
   if (qv_mode_set_count_imaginary (m) > 0)
     g_string_append (out, "# 'i' marks an imaginary mode (negative curvature): it has no turning point\n");
@@ -217,10 +244,11 @@ format_csv (const QvModeReport *r)
   g_autofree double *participation = g_new (double, MAX (r->modes->n_atoms, 1));
   const QvModeSet *m = r->modes;
   GString *out = g_string_new (NULL);
-  g_string_append (out, "index,wavenumber_cm-1,imaginary,reduced_mass_u,force_constant_mdyn_per_A,"
-                        "level,turning_point_Q_u^1/2_A,max_displacement_A,max_atom,"
-                        "temperature_K,thermal_Q_rms_u^1/2_A,thermal_max_rms_A,collectivity,"
-                        "translation_mixing,rotation_mixing\n");
+  g_string_append_printf (out, "index,wavenumber_cm-1,imaginary,reduced_mass_u,force_constant_mdyn_per_A,"
+                          "level,turning_point_Q_u^1/2_A,max_displacement_A,max_atom,"
+                          "temperature_K,thermal_Q_rms_u^1/2_A,thermal_max_rms_A,collectivity,"
+                          "translation_mixing,rotation_mixing%s\n",
+                          r->symmetry ? ",symmetry" : "");
   for (gsize k = 0; k < m->n_modes; k++)
     {
       Row row;
@@ -240,9 +268,12 @@ format_csv (const QvModeReport *r)
         g_string_append (out, ",,");
       g_string_append_printf (out, "%.6f,", row.collectivity);
       if (row.has_mixing)
-        g_string_append_printf (out, "%.6g,%.6g\n", row.mix_translation, row.mix_rotation);
+        g_string_append_printf (out, "%.6g,%.6g", row.mix_translation, row.mix_rotation);
       else
-        g_string_append (out, ",\n");
+        g_string_append (out, ",");
+      if (mode_symmetry (r, k))
+        g_string_append_printf (out, ",%s", mode_symmetry (r, k)->label);
+      g_string_append_c (out, '\n');
     }
   return g_string_free (out, FALSE);
 }
@@ -257,13 +288,17 @@ format_markdown (const QvModeReport *r)
   const int decimals = r->unit == QV_FREQUENCY_CM1 ? 1 : 3;
 
   append_header (out, "> ", r);
+  append_point_group (out, "> ", r);
   for (char **w = warnings; *w; w++)
+    g_string_append_printf (out, "> **warning:** %s\n", *w);
+  for (char **w = r->symmetry ? r->symmetry->warnings : NULL; w && *w; w++)
     g_string_append_printf (out, "> **warning:** %s\n", *w);
   g_string_append_printf (out, "\n| mode | frequency (%s) | reduced mass (u) | force constant (mdyn/Å) "
                                "| Q_tp at v = %u (u^½ Å) | largest displacement (Å) | atom "
-                               "| moves most | rotation removed (%%) |\n",
-                          qv_frequency_unit_name (r->unit), r->level);
-  g_string_append (out, "|---:|---:|---:|---:|---:|---:|---:|---:|---:|\n");
+                               "| moves most | rotation removed (%%) |%s\n",
+                          qv_frequency_unit_name (r->unit), r->level, r->symmetry ? " symmetry |" : "");
+  g_string_append_printf (out, "|---:|---:|---:|---:|---:|---:|---:|---:|---:|%s\n",
+                          r->symmetry ? ":---|" : "");
   for (gsize k = 0; k < m->n_modes; k++)
     {
       Row row;
@@ -286,9 +321,12 @@ format_markdown (const QvModeReport *r)
         g_string_append_printf (out, "%s (%.0f %%) | ", name, 100.0 * row.main_share);
       }
       if (row.has_mixing)
-        g_string_append_printf (out, "%.1f |\n", tidy (100.0 * row.mix_rotation, 0.1));
+        g_string_append_printf (out, "%.1f |", tidy (100.0 * row.mix_rotation, 0.1));
       else
-        g_string_append (out, "— |\n");
+        g_string_append (out, "— |");
+      if (mode_symmetry (r, k))
+        g_string_append_printf (out, " %s |", mode_symmetry (r, k)->label);
+      g_string_append_c (out, '\n');
     }
   return g_string_free (out, FALSE);
 }
@@ -448,6 +486,22 @@ format_json (const QvModeReport *r)
     qv_json_null (w, "lowest");
   if (r->character)
     write_internal_coordinates (w, r->character);
+  if (r->symmetry)
+    {
+      const QvPointGroup *g = r->symmetry->group;
+      qv_json_begin_object (w, "point_group");
+      qv_json_string (w, "name", g->name);
+      qv_json_number (w, "tolerance", g->tolerance);
+      qv_json_int (w, "symmetry_number", g->symmetry_number);
+      qv_json_int (w, "order", (gint64) g->order);
+      qv_json_number (w, "max_deviation", g->max_deviation);
+      qv_json_bool (w, "labelled", r->symmetry->table != NULL);
+      qv_json_begin_array (w, "warnings");
+      for (char **s = r->symmetry->warnings; *s; s++)
+        qv_json_string (w, NULL, *s);
+      qv_json_end_array (w);
+      qv_json_end_object (w);
+    }
 
   qv_json_begin_array (w, "modes");
   for (gsize k = 0; k < m->n_modes; k++)
@@ -488,6 +542,25 @@ format_json (const QvModeReport *r)
 
       if (r->character)
         write_character (w, r->character, k);
+      if (mode_symmetry (r, k))
+        {
+          const QvModeSymmetry *ms = mode_symmetry (r, k);
+          qv_json_begin_object (w, "symmetry");
+          qv_json_string (w, "label", ms->label);
+          if (ms->defined)
+            {
+              qv_json_bool (w, "ir_active", ms->ir_active);
+              qv_json_bool (w, "raman_active", ms->raman_active);
+            }
+          else
+            {
+              qv_json_null (w, "ir_active");
+              qv_json_null (w, "raman_active");
+            }
+          qv_json_int (w, "set_first", (gint64) ms->first + 1);
+          qv_json_int (w, "set_size", (gint64) ms->size);
+          qv_json_end_object (w);
+        }
       if (cart)
         {
           qv_mode_set_cartesian (m, k, cart);
@@ -538,6 +611,7 @@ static const struct {
   [QV_COLUMN_THERMAL_RMS] = { "thermal-rms", "thermal RMS", "thermal_max_rms_displacement", TRUE },
   [QV_COLUMN_COLLECTIVITY] = { "collectivity", "collectivity", "collectivity", TRUE },
   [QV_COLUMN_TOP_ATOMS] = { "top-atoms", "most moving atoms", "top_atoms", FALSE },
+  [QV_COLUMN_SYMMETRY] = { "symmetry", "symmetry", "symmetry", FALSE },
 };
 
 const char *
@@ -645,7 +719,7 @@ table_caption (const QvTableLayout *t, gboolean tex)
   g_autofree char *formula = qv_structure_formula (r->structure);
   GString *c = g_string_new (NULL);
   const double scale = layout_scale (t);
-  gboolean wavenumbers = FALSE, tp = FALSE, thermal = FALSE;
+  gboolean wavenumbers = FALSE, tp = FALSE, thermal = FALSE, sym = FALSE;
   const QvTableColumn *cols = t->columns;
 
   for (gsize i = 0; i < t->n_columns; i++)
@@ -653,6 +727,7 @@ table_caption (const QvTableLayout *t, gboolean tex)
       wavenumbers |= cols[i] == QV_COLUMN_WAVENUMBER;
       tp |= cols[i] == QV_COLUMN_TURNING_Q || cols[i] == QV_COLUMN_TURNING_DISPLACEMENT;
       thermal |= cols[i] == QV_COLUMN_THERMAL_RMS;
+      sym |= cols[i] == QV_COLUMN_SYMMETRY;
     }
   g_string_append_printf (c, "Harmonic normal modes of %s (%" G_GSIZE_FORMAT " atoms, %s)",
                           formula, r->structure->n_atoms,
@@ -669,6 +744,9 @@ table_caption (const QvTableLayout *t, gboolean tex)
     g_string_append_printf (c, "; classical turning points of level v = %u", r->level);
   if (thermal)
     g_string_append_printf (c, "; thermal RMS displacement at T = %g K", r->temperature);
+  if (sym && r->symmetry)
+    g_string_append_printf (c, "; species of point group %s (found within %g A; ? where the "
+                            "symmetry is broken)", r->symmetry->group->name, r->symmetry->group->tolerance);
   g_string_append (c, ".");
   if (tex)
     {
@@ -754,6 +832,8 @@ cell_text (const QvTableLayout *t, const TableRow *tr, gsize k, QvTableColumn c,
           }
         return g_string_free (s, FALSE);
       }
+    case QV_COLUMN_SYMMETRY:
+      return mode_symmetry (r, k) ? g_strdup (mode_symmetry (r, k)->label) : g_strdup (none);
     default:
       return g_strdup ("");
     }
@@ -855,6 +935,10 @@ columns_csv (const QvTableLayout *t, TableRow *tr)
                 g_string_append_printf (out, "\"%s\"", text);   /* no quotes inside */
               }
               break;
+            case QV_COLUMN_SYMMETRY:
+              if (mode_symmetry (r, k))
+                g_string_append (out, mode_symmetry (r, k)->label);
+              break;
             default: break;
             }
         }
@@ -927,6 +1011,12 @@ columns_json (const QvTableLayout *t, TableRow *tr)
                 }
               qv_json_end_array (w);
             }
+            break;
+          case QV_COLUMN_SYMMETRY:
+            if (mode_symmetry (r, k))
+              qv_json_string (w, "symmetry", mode_symmetry (r, k)->label);
+            else
+              qv_json_null (w, "symmetry");
             break;
           default: break;
           }

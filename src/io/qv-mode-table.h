@@ -8,6 +8,7 @@
 #include "qv-mode-character.h"
 #include "qv-mode-set.h"
 #include "qv-structure.h"
+#include "qv-symmetry-modes.h"
 #include "qv-units.h"
 
 G_BEGIN_DECLS
@@ -37,6 +38,10 @@ typedef struct {
   const QvModeCharacter *character; /* JSON: "internal_coordinates" and each
                                        mode's "character" (modes --character),
                                        or NULL */
+  const QvSymmetryReport *symmetry; /* point group and each mode's species
+                                       (text "sym" column, CSV/Markdown
+                                       "symmetry", JSON "point_group" and
+                                       per-mode "symmetry"), or NULL */
 } QvModeReport;
 
 /* A newly allocated, NUL-terminated document. QV_TABLE_LATEX gives the
@@ -54,12 +59,13 @@ typedef enum {
   QV_COLUMN_THERMAL_RMS,           /* largest atomic RMS displacement at T, Å */
   QV_COLUMN_COLLECTIVITY,          /* exp(Shannon entropy of p)/N */
   QV_COLUMN_TOP_ATOMS,             /* the atoms with the largest participation */
+  QV_COLUMN_SYMMETRY,              /* the mode's species (report->symmetry), "?" unknown */
   QV_N_COLUMNS
 } QvTableColumn;
 
 /* Names as the command line spells them: index, wavenumber, reduced-mass,
  * force-constant, turning-q, turning-displacement, thermal-rms,
- * collectivity, top-atoms. */
+ * collectivity, top-atoms, symmetry. */
 const char *qv_table_column_name (QvTableColumn column);
 /* A comma-separated list of names into @columns (room for QV_N_COLUMNS;
  * no repeats); QV_ERROR_USAGE naming the accepted ones. */
