@@ -345,7 +345,11 @@ typedef struct {
   GArray *coords;       /* QvInternalCoordinate */
   GPtrArray *notes;
   GArray **nbr;         /* per atom: guint32 neighbours, ascending */
+  gsize n_linear, n_skipped;   /* near-linear angles, bonds without torsions */
 } Builder;
+
+/* Notes of one kind listed one by one up to this many, then counted. */
+#define MAX_NOTES 5
 
 static QvInternalCoordinate *
 push (Builder *b, QvInternalKind kind, const guint32 *atoms, guint n)
@@ -434,10 +438,11 @@ add_bends (Builder *b)
                     c->name = g_strdup_printf ("%s linear bend %c", chain, t ? 'b' : 'a');
                     c->family = chain_family (b->s, a, 3, "linear bend");
                   }
-                g_ptr_array_add (b->notes,
-                                 g_strdup_printf ("angle %s is %.1f\u00b0, near-linear: described by "
-                                                  "two perpendicular linear bends, and no torsion "
-                                                  "runs through it", chain, deg));
+                if (b->n_linear++ < MAX_NOTES)
+                  g_ptr_array_add (b->notes,
+                                   g_strdup_printf ("angle %s is %.1f\u00b0, near-linear: described by "
+                                                    "two perpendicular linear bends, and no torsion "
+                                                    "runs through it", chain, deg));
               }
           }
     }
@@ -467,7 +472,7 @@ add_torsions (Builder *b, const QvBond *bonds, gsize n_bonds)
             c->name = chain_name (b->s, a, 4);
             c->family = chain_family (b->s, a, 4, "torsion");
           }
-      if (skipped)
+      if (skipped && b->n_skipped++ < MAX_NOTES)
         {
           guint32 a[2] = { j, k };
           g_autofree char *bond = chain_name (b->s, a, 2);
@@ -561,6 +566,13 @@ qv_internal_coordinates_new (const QvStructure *structure, double tolerance, GEr
   add_bends (&b);
   add_torsions (&b, bonds, n_bonds);
   add_out_of_plane (&b);
+  if (b.n_linear > MAX_NOTES)
+    g_ptr_array_add (b.notes, g_strdup_printf ("and %zu more near-linear angles, each as two "
+                                               "linear bends", b.n_linear - MAX_NOTES));
+  if (b.n_skipped > MAX_NOTES)
+    g_ptr_array_add (b.notes, g_strdup_printf ("and torsions about %zu more bonds through "
+                                               "near-linear angles are left out",
+                                               b.n_skipped - MAX_NOTES));
   g_ptr_array_add (b.notes, NULL);
 
   ic = g_new0 (QvInternalCoordinates, 1);

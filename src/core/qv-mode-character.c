@@ -16,6 +16,10 @@
  * far below any real kinetic coupling of a valence coordinate). */
 #define G_RANK_TOLERANCE 1e-9
 
+/* Largest nc × n_modes kept in memory (about 1 GB with the per-mode
+ * items); (3N)² may be 0.8 of it (four such matrices with a Hessian). */
+#define QV_MODE_CHARACTER_MAX_ENTRIES 2e7
+
 /* Modes whose wavenumbers differ by less than this (cm⁻¹, plus 1e-6
  * relative) form one degenerate set (common practice). */
 #define DEGENERATE_CM1 1e-3
@@ -46,7 +50,8 @@ compare_item (const void *pa, const void *pb)
   return a->coordinate < b->coordinate ? -1 : a->coordinate > b->coordinate;
 }
 
-/* G⁺ (n × n, symmetric) from the eigen-decomposition of G; returns the rank
+/* The Moore–Penrose inverse of the symmetric n × n @g from its
+ * eigen-decomposition into @gplus; returns the rank
  * or -1 when LAPACK fails. */
 static gssize
 pseudo_inverse (double *g, gsize n, double *gplus)
@@ -92,7 +97,7 @@ qv_mode_character_new (const QvStructure *structure, const QvModeSet *modes,
   g_autoptr(QvInternalCoordinates) ic = NULL;
   QvModeCharacter *c;
   gsize n_at = structure->n_atoms, n = 3 * n_at, nc, nm = modes->n_modes;
-  g_autofree double *bm = NULL, *g = NULL, *gplus = NULL, *x = NULL, *y = NULL;
+  g_autofree double *bm = NULL, *cmat = NULL, *cplus = NULL, *z = NULL, *y = NULL;
   g_autofree double *energy = NULL;
   GPtrArray *notes;
   GHashTable *family_index;
@@ -125,23 +130,36 @@ qv_mode_character_new (const QvStructure *structure, const QvModeSet *modes,
       return NULL;
     }
 
-  /* bm = B M^-1/2 (nc × n), G = bm bmᵀ. */
+  if ((double) nc * (double) MAX (nm, 1) > QV_MODE_CHARACTER_MAX_ENTRIES
+      || (double) n * (double) n > 0.8 * QV_MODE_CHARACTER_MAX_ENTRIES)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_LIMIT,
+                   "the make-up of %zu modes over %zu internal coordinates (%zu atoms) is "
+                   "beyond what it keeps in memory (%.0f million shares); use it on a molecule "
+                   "or a smaller fragment", nm, nc, n_at, QV_MODE_CHARACTER_MAX_ENTRIES / 1e6);
+      return NULL;
+    }
+
+  /* bm = B M^-1/2 (nc × n). */
   bm = g_new (double, nc * n);
   for (gsize i = 0; i < nc; i++)
     for (gsize q = 0; q < n; q++)
       bm[i * n + q] = ic->b_matrix[i * n + q] / sqrt (modes->masses[q / 3]);
-  g = g_new0 (double, nc * nc);
-  cblas_dsyrk (CblasRowMajor, CblasUpper, CblasNoTrans, (int) nc, (int) n, 1.0, bm, (int) n,
-               0.0, g, (int) nc);
-  for (gsize i = 0; i < nc; i++)
+  /* The Moore–Penrose inverse through the 3N-sized C = bmᵀ bm rather than
+     the nc-sized G = bm bmᵀ (same non-zero eigenvalues; bm⁺ = C⁺ bmᵀ =
+     bmᵀ G⁺), so a large redundant set costs nc·(3N)², not nc³. */
+  cmat = g_new0 (double, n * n);
+  cblas_dsyrk (CblasRowMajor, CblasUpper, CblasTrans, (int) n, (int) nc, 1.0, bm, (int) n,
+               0.0, cmat, (int) n);
+  for (gsize i = 0; i < n; i++)
     for (gsize j = 0; j < i; j++)
-      g[i * nc + j] = g[j * nc + i];
-  gplus = g_new (double, nc * nc);
-  rank = pseudo_inverse (g, nc, gplus);
+      cmat[i * n + j] = cmat[j * n + i];
+  cplus = g_new (double, n * n);
+  rank = pseudo_inverse (cmat, n, cplus);
   if (rank < 0)
     {
       g_set_error (error, QV_ERROR, QV_ERROR_SOLVER,
-                   "LAPACK could not diagonalise the kinetic matrix G of %zu coordinates", nc);
+                   "LAPACK could not diagonalise the kinetic matrix of %zu coordinates", nc);
       return NULL;
     }
 
@@ -160,29 +178,38 @@ qv_mode_character_new (const QvStructure *structure, const QvModeSet *modes,
   if (nm > 0)
     cblas_dgemm (CblasRowMajor, CblasNoTrans, CblasTrans, (int) nm, (int) nc, (int) n, 1.0,
                  modes->vectors, (int) n, bm, (int) n, 0.0, c->displacements, (int) nc);
-  /* y_k = G⁺ L_k (mode-major, nm × nc). */
+  /* y_k = G⁺ L_k = (bm⁺)ᵀ l_k = bm (C⁺ l_k), mode-major nm × nc. */
+  z = g_new0 (double, MAX (nm, 1) * n);
   y = g_new0 (double, MAX (nm, 1) * nc);
   if (nm > 0)
-    cblas_dgemm (CblasRowMajor, CblasNoTrans, CblasNoTrans, (int) nm, (int) nc, (int) nc, 1.0,
-                 c->displacements, (int) nc, gplus, (int) nc, 0.0, y, (int) nc);
+    {
+      cblas_dgemm (CblasRowMajor, CblasNoTrans, CblasNoTrans, (int) nm, (int) n, (int) n, 1.0,
+                   modes->vectors, (int) n, cplus, (int) n, 0.0, z, (int) n);
+      cblas_dgemm (CblasRowMajor, CblasNoTrans, CblasTrans, (int) nm, (int) nc, (int) n, 1.0,
+                   z, (int) n, bm, (int) n, 0.0, y, (int) nc);
+    }
   for (gsize k = 0; k < nm; k++)
     c->described[k] = cblas_ddot ((int) nc, c->displacements + k * nc, 1, y + k * nc, 1);
 
   if (hessian != NULL)
     {
-      /* A = M⁻¹ Bᵀ G⁺ = M^-1/2 bmᵀ G⁺ (n × nc); F_ii = a_iᵀ H a_i. */
-      g_autofree double *a = g_new (double, n * nc);
-      g_autofree double *ha = g_new (double, n * nc);
-      cblas_dgemm (CblasRowMajor, CblasTrans, CblasNoTrans, (int) n, (int) nc, (int) nc, 1.0,
-                   bm, (int) n, gplus, (int) nc, 0.0, a, (int) nc);
-      for (gsize q = 0; q < n; q++)
-        for (gsize i = 0; i < nc; i++)
-          a[q * nc + i] /= sqrt (modes->masses[q / 3]);
-      cblas_dgemm (CblasRowMajor, CblasNoTrans, CblasNoTrans, (int) n, (int) nc, (int) n, 1.0,
-                   hessian, (int) n, a, (int) nc, 0.0, ha, (int) nc);
-      for (gsize q = 0; q < n; q++)
-        for (gsize i = 0; i < nc; i++)
-          c->force_constants[i] += a[q * nc + i] * ha[q * nc + i];
+      /* A = M⁻¹ Bᵀ G⁺ = M^-1/2 C⁺ bmᵀ, so F_ii = bm_i W bm_iᵀ with
+         W = C⁺ K C⁺ and K = M^-1/2 H M^-1/2. */
+      g_autofree double *k = g_new (double, n * n);
+      g_autofree double *t = g_new (double, n * n);
+      g_autofree double *w = g_new (double, n * n);
+      g_autofree double *bw = g_new (double, nc * n);
+      for (gsize p = 0; p < n; p++)
+        for (gsize q = 0; q < n; q++)
+          k[p * n + q] = hessian[p * n + q] / sqrt (modes->masses[p / 3] * modes->masses[q / 3]);
+      cblas_dgemm (CblasRowMajor, CblasNoTrans, CblasNoTrans, (int) n, (int) n, (int) n, 1.0,
+                   cplus, (int) n, k, (int) n, 0.0, t, (int) n);
+      cblas_dgemm (CblasRowMajor, CblasNoTrans, CblasNoTrans, (int) n, (int) n, (int) n, 1.0,
+                   t, (int) n, cplus, (int) n, 0.0, w, (int) n);
+      cblas_dgemm (CblasRowMajor, CblasNoTrans, CblasNoTrans, (int) nc, (int) n, (int) n, 1.0,
+                   bm, (int) n, w, (int) n, 0.0, bw, (int) n);
+      for (gsize i = 0; i < nc; i++)
+        c->force_constants[i] = cblas_ddot ((int) n, bw + i * n, 1, bm + i * n, 1);
     }
   else
     {

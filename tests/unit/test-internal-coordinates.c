@@ -358,6 +358,57 @@ test_water_make_up (void **state)
   }
 }
 
+/* Ethanol-like with an invented diagonal force field over all 33 perceived
+ * coordinates (stretches 30 eV/Å², bends 3 eV/rad², torsions 0.2): the set
+ * is redundant, and the two routes to F — Aᵀ H A from the Hessian, and
+ * Σ λ_k (G⁺L_k)(G⁺L_k)ᵀ from the modes — are algebraically the same matrix
+ * (header of qv-mode-character.h), so they must agree to rounding. */
+static void
+test_redundant_routes_agree (void **state)
+{
+  g_autoptr(QvStructure) s = ethanol_like ();
+  g_autoptr(QvInternalCoordinates) ic = qv_internal_coordinates_new (s, QV_BONDS_DEFAULT_TOLERANCE, NULL);
+  g_autoptr(QvHessian) h = qv_hessian_new (27, TRUE, NULL);
+  g_autoptr(QvModeSet) modes = NULL;
+  g_autoptr(QvModeCharacter) a = NULL, b = NULL;
+  QvSolveOptions o;
+  double fmax = 0.0;
+  (void) state;
+
+  for (gsize i = 0; i < ic->n_coordinates; i++)
+    {
+      QvInternalKind kind = ic->coordinates[i].kind;
+      qvt_add_coordinate (h, qv_internal_coordinates_b_row (ic, i),
+                          kind == QV_INTERNAL_STRETCH ? 30.0 : kind == QV_INTERNAL_BEND ? 3.0 : 0.2);
+    }
+  qv_solve_options_init (&o);
+  modes = qvt_solve_checked (s, h, &o);
+  assert_int_equal (modes->n_modes, 21);
+  a = qv_mode_character_new (s, modes, h->data, NULL);
+  b = qv_mode_character_new (s, modes, NULL, NULL);
+  assert_non_null (a);
+  assert_non_null (b);
+  assert_int_equal (qv_mode_character_rank (a), 21);
+  for (gsize i = 0; i < ic->n_coordinates; i++)
+    fmax = MAX (fmax, fabs (qv_mode_character_force_constants (a)[i]));
+  for (gsize i = 0; i < ic->n_coordinates; i++)
+    assert_true (fabs (qv_mode_character_force_constants (a)[i]
+                       - qv_mode_character_force_constants (b)[i]) < 1e-9 * fmax);
+  for (gsize k = 0; k < 21; k++)
+    {
+      for (gsize i = 0; i < ic->n_coordinates; i++)
+        assert_true (fabs (qv_mode_character_shares (a, k)[i] - qv_mode_character_shares (b, k)[i]) < 1e-9);
+      assert_true (fabs (qv_mode_character_described (a, k) - 1.0) < 1e-9);
+    }
+  /* the six highest modes are the X–H stretches (light H on stiff bonds) */
+  for (gsize k = 15; k < 21; k++)
+    {
+      const QvCharacterItem *fam;
+      qv_mode_character_families (a, k, &fam);
+      assert_true (g_str_has_suffix (fam[0].name, "\u2013H stretch") && fam[0].share > 0.9);
+    }
+}
+
 static void
 test_errors (void **state)
 {
@@ -392,6 +443,7 @@ main (void)
     cmocka_unit_test (test_ethanol_perception),
     cmocka_unit_test (test_b_rows_numerical),
     cmocka_unit_test (test_water_make_up),
+    cmocka_unit_test (test_redundant_routes_agree),
     cmocka_unit_test (test_errors),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
