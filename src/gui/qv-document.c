@@ -1,6 +1,7 @@
 /* qv-document.c — the document of one window and its worker-thread jobs.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <glib/gi18n.h>
+#include <string.h>
 #include "qv-config.h"
 #ifdef __linux__
 #include <sys/resource.h>
@@ -21,6 +22,7 @@ struct _QvDocument
   QvHessian *hessian;       /* eV/Å² as read; never handed to qv_solve */
   QvModeSet *modes;
   QvModeRow *rows;          /* one per mode */
+  QvDocumentAnalysis *analysis; /* of @modes */
   QvDocumentSource *source; /* what was read, NULL when built in memory */
 };
 
@@ -112,6 +114,7 @@ qv_document_finalize (GObject *object)
   g_clear_pointer (&self->hessian, qv_hessian_free);
   g_clear_pointer (&self->modes, qv_mode_set_free);
   g_free (self->rows);
+  g_clear_pointer (&self->analysis, qv_document_analysis_free);
   g_clear_pointer (&self->source, qv_document_source_free);
   G_OBJECT_CLASS (qv_document_parent_class)->finalize (object);
 }
@@ -184,9 +187,27 @@ worker_restore_priority (int before)
 #endif
 }
 
+/* The species column: the label, cut to the row's buffer on a character. */
+static void
+qv_document_row_set_symmetry (QvModeRow *row, const QvDocumentAnalysis *analysis, gsize k)
+{
+  const char *label = qv_document_analysis_label (analysis, k);
+
+  row->symmetry_order = qv_document_analysis_label_order (analysis, k);
+  if (label == NULL)
+    row->symmetry[0] = '\0';
+  else if (strlen (label) < sizeof row->symmetry)
+    g_strlcpy (row->symmetry, label, sizeof row->symmetry);
+  else
+    {
+      const char *end = g_utf8_find_prev_char (label, label + sizeof row->symmetry - 4);
+      g_snprintf (row->symmetry, sizeof row->symmetry, "%.*s…", (int) (end - label), label);
+    }
+}
+
 /* The list's numbers for every mode: on the worker, O(N) per mode. */
 static QvModeRow *
-compute_rows (const QvModeSet *modes)
+compute_rows (const QvModeSet *modes, const QvDocumentAnalysis *analysis)
 {
   QvModeRow *rows = g_new0 (QvModeRow, MAX (modes->n_modes, 1));
 
@@ -200,6 +221,7 @@ compute_rows (const QvModeSet *modes)
       rows[k].unit_displacement = qv_mode_set_max_displacement (modes, k, 1.0, NULL);
       rows[k].imaginary = qv_mode_set_is_imaginary (modes, k);
       rows[k].has_turning_point = tp.defined;
+      qv_document_row_set_symmetry (&rows[k], analysis, k);
     }
   return rows;
 }
@@ -218,10 +240,11 @@ solve_copy (const QvStructure *structure, const QvHessian *hessian,
   return qv_solve (structure, copy, &options, progress, error);
 }
 
-/* Takes @rows, or computes them when NULL. */
+/* Takes @analysis, or computes it when NULL (without tensors); then the
+ * rows. */
 static QvDocument *
 document_new (const char *name, const char *path, QvStructure *structure,
-              QvHessian *hessian, QvModeSet *modes, QvModeRow *rows)
+              QvHessian *hessian, QvModeSet *modes, QvDocumentAnalysis *analysis)
 {
   QvDocument *doc = g_object_new (QV_TYPE_DOCUMENT, NULL);
   doc->name = g_strdup (name);
@@ -230,7 +253,8 @@ document_new (const char *name, const char *path, QvStructure *structure,
   doc->structure = structure;
   doc->hessian = hessian;
   doc->modes = modes;
-  doc->rows = rows ? rows : compute_rows (modes);
+  doc->analysis = analysis ? analysis : qv_document_analysis_new (structure, modes, NULL);
+  doc->rows = compute_rows (modes, doc->analysis);
   return doc;
 }
 
@@ -303,6 +327,7 @@ load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProg
   GError *error = NULL;
   QvModeSet *modes;
   QvDocument *doc;
+  QvDocumentAnalysis *analysis;
   g_autofree char *display = NULL;
 
   input = qv_input_load (options, &error);
@@ -329,9 +354,11 @@ load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProg
                             : g_path_get_basename (d->source->geometry);
   /* The GObject is made here, on the worker, with the list's rows: the
    * main thread only shows it. */
+  analysis = qv_document_analysis_new (input->structure, modes,
+                                       qv_document_analysis_read_derivatives (d->source->geometry));
   doc = document_new (display, d->source->demo ? NULL : d->source->geometry,
                       g_steal_pointer (&input->structure),
-                      g_steal_pointer (&input->hessian), modes, NULL);
+                      g_steal_pointer (&input->hessian), modes, analysis);
   doc->source = qv_document_source_copy (d->source);
   g_task_return_pointer (task, doc, g_object_unref);
 }
@@ -369,6 +396,7 @@ qv_document_load_finish (GAsyncResult *result, GError **error)
 
 typedef struct {
   QvStructure *structure;
+  QvDerivatives *derivatives;      /* a copy of the document's, or NULL */
   Relay relay;
 } SolveData;
 
@@ -377,6 +405,7 @@ solve_data_free (gpointer data)
 {
   SolveData *d = data;
   g_clear_pointer (&d->structure, qv_structure_free);
+  g_clear_pointer (&d->derivatives, qv_derivatives_free);
   g_main_context_unref (d->relay.context);
   g_free (d);
 }
@@ -384,6 +413,7 @@ solve_data_free (gpointer data)
 typedef struct {
   QvModeSet *modes;
   QvModeRow *rows;
+  QvDocumentAnalysis *analysis;
 } Solved;
 
 static void
@@ -392,6 +422,7 @@ solved_free (gpointer data)
   Solved *solved = data;
   qv_mode_set_free (solved->modes);
   g_free (solved->rows);
+  qv_document_analysis_free (solved->analysis);
   g_free (solved);
 }
 
@@ -413,7 +444,8 @@ solve_thread (GTask *task, gpointer source_object, gpointer task_data, GCancella
     {
       solved = g_new0 (Solved, 1);
       solved->modes = modes;
-      solved->rows = compute_rows (modes);
+      solved->analysis = qv_document_analysis_new (d->structure, modes, g_steal_pointer (&d->derivatives));
+      solved->rows = compute_rows (modes, solved->analysis);
       g_task_return_pointer (task, solved, solved_free);
     }
   g_atomic_int_dec_and_test (&running_workers);
@@ -428,6 +460,7 @@ qv_document_solve_async (QvDocument *doc, QvStructure *structure, GCancellable *
   SolveData *d = g_new0 (SolveData, 1);
 
   d->structure = structure;
+  d->derivatives = qv_document_analysis_copy_derivatives (doc->analysis);
   d->relay.task = task;
   d->relay.context = g_main_context_ref_thread_default ();
   d->relay.func = progress;
@@ -462,6 +495,8 @@ qv_document_solve_finish (QvDocument *doc, GAsyncResult *result, GError **error)
   g_free (doc->rows);
   doc->modes = solved->modes;
   doc->rows = solved->rows;
+  qv_document_analysis_free (doc->analysis);
+  doc->analysis = solved->analysis;
   g_free (solved);
   g_signal_emit (doc, signals[CHANGED], 0);
   return TRUE;
@@ -474,6 +509,7 @@ const QvStructure *qv_document_get_structure (QvDocument *doc) { return doc->str
 const QvStructure *qv_document_get_original (QvDocument *doc) { return doc->original; }
 const QvModeSet *qv_document_get_modes (QvDocument *doc) { return doc->modes; }
 const QvModeRow *qv_document_get_rows (QvDocument *doc) { return doc->rows; }
+const QvDocumentAnalysis *qv_document_get_analysis (QvDocument *doc) { return doc->analysis; }
 gboolean qv_document_has_hessian (QvDocument *doc) { return doc->hessian != NULL; }
 
 gboolean

@@ -4,6 +4,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #pragma once
 #include <gio/gio.h>
+#include "qv-document-analysis.h"
 #include "qv-input.h"
 #include "qv-mode-set.h"
 #include "qv-structure.h"
@@ -54,6 +55,11 @@ typedef struct {
   double unit_displacement;    /* Å per u^½ Å */
   gboolean imaginary;          /* qv_mode_set_is_imaginary */
   gboolean has_turning_point;  /* QvTurningPoint.defined */
+  /* The species (qv-document-analysis.h): "A1", "E2g", "?" when broken,
+   * "" without a point group; cut to fit (a long accidental sum ends in
+   * "…"). @symmetry_order sorts by the table's order, "?" and "" last. */
+  char symmetry[24];
+  int symmetry_order;
 } QvModeRow;
 
 const char *qv_document_get_name (QvDocument *doc);
@@ -67,6 +73,9 @@ const char *qv_document_get_path (QvDocument *doc);
 const QvDocumentSource *qv_document_get_source (QvDocument *doc);
 const QvStructure *qv_document_get_structure (QvDocument *doc);
 const QvModeSet *qv_document_get_modes (QvDocument *doc);
+/* Point group, species, make-up and intensities of the modes, computed on
+ * the worker with them and replaced with them on ::changed. */
+const QvDocumentAnalysis *qv_document_get_analysis (QvDocument *doc);
 /* FALSE for precomputed modes: then masses cannot be changed. */
 gboolean qv_document_has_hessian (QvDocument *doc);
 /* TRUE when some mass differs from the one the file gave. */

@@ -24,6 +24,7 @@ enum {
   PROP_TURNING_Q,
   PROP_MAX_DISPLACEMENT,
   PROP_IMAGINARY,
+  PROP_SYMMETRY_ORDER,
   N_PROPS
 };
 static GParamSpec *props[N_PROPS];
@@ -42,6 +43,8 @@ qv_mode_item_get_property (GObject *object, guint prop_id, GValue *value, GParam
     case PROP_TURNING_Q: g_value_set_double (value, isnan (self->turning_q) ? -1.0 : self->turning_q); break;
     case PROP_MAX_DISPLACEMENT: g_value_set_double (value, isnan (self->max_displacement) ? -1.0 : self->max_displacement); break;
     case PROP_IMAGINARY: g_value_set_boolean (value, self->row.imaginary); break;
+    /* Species sort in the character table's order. */
+    case PROP_SYMMETRY_ORDER: g_value_set_int (value, self->row.symmetry_order); break;
     default: G_OBJECT_WARN_INVALID_PROPERTY_ID (object, prop_id, pspec);
     }
 }
@@ -59,6 +62,7 @@ qv_mode_item_class_init (QvModeItemClass *klass)
   props[PROP_TURNING_Q] = g_param_spec_double ("turning-q", NULL, NULL, -G_MAXDOUBLE, G_MAXDOUBLE, 0, flags);
   props[PROP_MAX_DISPLACEMENT] = g_param_spec_double ("max-displacement", NULL, NULL, -G_MAXDOUBLE, G_MAXDOUBLE, 0, flags);
   props[PROP_IMAGINARY] = g_param_spec_boolean ("imaginary", NULL, NULL, FALSE, flags);
+  props[PROP_SYMMETRY_ORDER] = g_param_spec_int ("symmetry-order", NULL, NULL, G_MININT, G_MAXINT, 0, flags);
   g_object_class_install_properties (object_class, N_PROPS, props);
 }
 
@@ -110,6 +114,7 @@ double qv_mode_item_get_reduced_mass (QvModeItem *self) { return self->row.reduc
 double qv_mode_item_get_turning_q (QvModeItem *self) { return self->turning_q; }
 double qv_mode_item_get_max_displacement (QvModeItem *self) { return self->max_displacement; }
 gboolean qv_mode_item_get_imaginary (QvModeItem *self) { return self->row.imaginary; }
+const char *qv_mode_item_get_symmetry (QvModeItem *self) { return self->row.symmetry; }
 
 char *
 qv_mode_item_format_wavenumber (QvModeItem *self, QvFrequencyUnit unit)

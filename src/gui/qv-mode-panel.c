@@ -8,7 +8,9 @@
 #include "qv-mode-panel.h"
 #include "qv-preferences.h"
 
-enum { COL_INDEX, COL_WAVENUMBER, COL_MASS, COL_TURNING, COL_DISPLACEMENT, N_COLUMNS };
+/* COL_SYMMETRY is shown after the wavenumber; the numbers keep their
+ * indices (qv_mode_panel_cell_text). */
+enum { COL_INDEX, COL_WAVENUMBER, COL_MASS, COL_TURNING, COL_DISPLACEMENT, COL_SYMMETRY, N_COLUMNS };
 
 struct _QvModePanel
 {
@@ -17,6 +19,7 @@ struct _QvModePanel
   GtkWidget *box;
   GtkLabel *formula_label;
   GtkLabel *facts_label;
+  GtkLabel *symmetry_label;
   GtkBox *warnings_box;
   GtkSpinButton *level_spin;
   GtkAdjustment *level_adjustment;
@@ -42,7 +45,7 @@ static GParamSpec *props[N_PROPS];
 
 /* Column properties: what the cell shows and the sorter compares. */
 static const char *const column_property[N_COLUMNS] = {
-  "index", "wavenumber", "reduced-mass", "turning-q", "max-displacement",
+  "index", "wavenumber", "reduced-mass", "turning-q", "max-displacement", "symmetry-order",
 };
 
 static char *
@@ -62,6 +65,9 @@ format_cell (QvModePanel *self, QvModeItem *item, guint column)
     case COL_DISPLACEMENT:
       v = qv_mode_item_get_max_displacement (item);
       return isnan (v) ? g_strdup ("—") : g_strdup_printf ("%.4f", v);
+    case COL_SYMMETRY:
+      /* No point group (periodic, too large): a dash, as for no turning point. */
+      return g_strdup (qv_mode_item_get_symmetry (item)[0] ? qv_mode_item_get_symmetry (item) : "—");
     default: return g_strdup ("");
     }
 }
@@ -79,8 +85,10 @@ cell_setup (GtkSignalListItemFactory *factory, GtkListItem *list_item, gpointer 
   CellKind *kind = data;
   GtkWidget *label = gtk_label_new (NULL);
 
-  gtk_label_set_xalign (GTK_LABEL (label), kind->column == COL_INDEX ? 0.0f : 1.0f);
-  gtk_widget_add_css_class (label, "numeric");
+  gtk_label_set_xalign (GTK_LABEL (label), kind->column == COL_INDEX ? 0.0f
+                                           : kind->column == COL_SYMMETRY ? 0.5f : 1.0f);
+  if (kind->column != COL_SYMMETRY)
+    gtk_widget_add_css_class (label, "numeric");
   gtk_list_item_set_child (list_item, label);
 }
 
@@ -177,9 +185,12 @@ add_column (QvModePanel *self, guint column, const char *title, const char *tool
   sorter = GTK_SORTER (gtk_numeric_sorter_new (expr));
   gtk_column_view_column_set_sorter (col, sorter);
   g_object_unref (sorter);
-  gtk_column_view_column_set_expand (col, column != COL_INDEX);
+  gtk_column_view_column_set_expand (col, column != COL_INDEX && column != COL_SYMMETRY);
   gtk_column_view_column_set_resizable (col, column != COL_INDEX);
-  gtk_column_view_append_column (self->column_view, col);
+  if (column == COL_SYMMETRY)
+    gtk_column_view_insert_column (self->column_view, 2, col);
+  else
+    gtk_column_view_append_column (self->column_view, col);
   self->columns[column] = col;
   g_object_unref (col);
   (void) tooltip;
@@ -193,6 +204,49 @@ clear_box (GtkBox *box)
   GtkWidget *child;
   while ((child = gtk_widget_get_first_child (GTK_WIDGET (box))) != NULL)
     gtk_box_remove (box, child);
+}
+
+/* "Point group C2v · symmetry number 2", or why there is none. */
+static void
+update_symmetry (QvModePanel *self)
+{
+  const QvDocumentAnalysis *a = self->document ? qv_document_get_analysis (self->document) : NULL;
+  g_autofree char *text = NULL;
+  gsize broken = 0;
+
+  if (a == NULL)
+    {
+      gtk_label_set_label (self->symmetry_label, "");
+      gtk_widget_set_visible (GTK_WIDGET (self->symmetry_label), FALSE);
+      return;
+    }
+  if (a->group == NULL)
+    /* TRANSLATORS: %s is the core's reason, e.g. for a periodic structure */
+    text = g_strdup_printf (_("No point group: %s"), a->group_note ? a->group_note : "");
+  else
+    {
+      for (gsize k = 0; a->symmetry && k < a->symmetry->n_modes; k++)
+        broken += !a->symmetry->modes[k].defined;
+      /* TRANSLATORS: "Point group C2v · symmetry number 2 · tolerance 0.01 Å" */
+      text = g_strdup_printf (_("Point group %s · symmetry number %u · tolerance %g Å"),
+                              a->group->name, a->group->symmetry_number, a->group->tolerance);
+      if (broken && a->symmetry->table)
+        {
+          g_autofree char *head = g_steal_pointer (&text);
+          g_autofree char *tail = g_strdup_printf (g_dngettext (GETTEXT_PACKAGE,
+                                                                "%zu mode without a whole species (?)",
+                                                                "%zu modes without a whole species (?)",
+                                                                broken), broken);
+          text = g_strdup_printf ("%s · %s", head, tail);
+        }
+      else if (a->symmetry && a->symmetry->table == NULL)
+        {
+          g_autofree char *head = g_steal_pointer (&text);
+          text = g_strdup_printf ("%s · %s", head, _("no character table: modes not labelled"));
+        }
+    }
+  gtk_label_set_label (self->symmetry_label, text);
+  gtk_widget_set_visible (GTK_WIDGET (self->symmetry_label), TRUE);
 }
 
 static void
@@ -209,6 +263,7 @@ update_summary (QvModePanel *self)
   gsize n_imag;
 
   clear_box (self->warnings_box);
+  update_symmetry (self);
   if (self->document == NULL)
     {
       gtk_label_set_label (self->formula_label, "");
@@ -513,6 +568,7 @@ qv_mode_panel_class_init (QvModePanelClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvModePanel, box);
   gtk_widget_class_bind_template_child (widget_class, QvModePanel, formula_label);
   gtk_widget_class_bind_template_child (widget_class, QvModePanel, facts_label);
+  gtk_widget_class_bind_template_child (widget_class, QvModePanel, symmetry_label);
   gtk_widget_class_bind_template_child (widget_class, QvModePanel, warnings_box);
   gtk_widget_class_bind_template_child (widget_class, QvModePanel, level_spin);
   gtk_widget_class_bind_template_child (widget_class, QvModePanel, level_adjustment);
@@ -532,6 +588,8 @@ qv_mode_panel_init (QvModePanel *self)
   add_column (self, COL_MASS, _("μ (u)"), NULL);
   add_column (self, COL_TURNING, _("Q tp"), NULL);
   add_column (self, COL_DISPLACEMENT, _("Largest"), NULL);
+  /* TRANSLATORS: column title: the mode's symmetry species (irreducible representation) */
+  add_column (self, COL_SYMMETRY, _("Sym."), NULL);
   update_titles (self);
 
   self->store = qv_mode_list_new ();

@@ -24,7 +24,8 @@ void qv_mode_panel_step (QvModePanel *self, int delta);
 /* The rows as shown (sorted), QvModeItem each. */
 GListModel *qv_mode_panel_get_rows (QvModePanel *self);
 /* The text a row's cell shows: column 0 index, 1 wavenumber, 2 reduced mass,
- * 3 turning point, 4 largest displacement. For tests. */
+ * 3 turning point, 4 largest displacement, 5 symmetry species (shown after
+ * the wavenumber). For tests. */
 char *qv_mode_panel_cell_text (QvModePanel *self, guint row, guint column);
 /* Sorts by @column (as above), ascending or not (as a header click would). */
 void qv_mode_panel_sort_by (QvModePanel *self, guint column, gboolean ascending);
