@@ -11,6 +11,10 @@ struct _QvModeDetail
   GtkWidget *box;
   GtkLabel *heading_label;
   GtkLabel *facts_label;
+  GtkLabel *symmetry_label;
+  GtkWidget *character_title;
+  GtkLabel *character_label;
+  GtkLabel *coordinates_label;
   GtkWidget *atoms_title;
   GtkGrid *atoms_grid;
   GtkLabel *mixing_label;
@@ -28,6 +32,86 @@ by_share_desc (gconstpointer a, gconstpointer b)
 {
   const double pa = ((const Share *) a)->p, pb = ((const Share *) b)->p;
   return pa < pb ? 1 : pa > pb ? -1 : 0;
+}
+
+/* Species and activity: "Species E (modes 4–5) · IR active · Raman inactive". */
+static void
+show_symmetry (QvModeDetail *self, const QvDocumentAnalysis *a, gsize k)
+{
+  const QvModeSymmetry *sym = a && a->symmetry && k < a->symmetry->n_modes ? &a->symmetry->modes[k] : NULL;
+  g_autofree char *species = NULL;
+  g_autofree char *text = NULL;
+
+  gtk_widget_set_visible (GTK_WIDGET (self->symmetry_label), a != NULL);
+  if (a == NULL)
+    return;
+  if (sym == NULL)
+    {
+      /* TRANSLATORS: %s is why there is no point group */
+      text = g_strdup_printf (_("Species not known: no point group (%s)"), a->group_note ? a->group_note : "");
+      gtk_label_set_label (self->symmetry_label, text);
+      return;
+    }
+  if (!sym->defined)
+    {
+      text = g_strdup_printf (_("Species ? in %s: the mode's symmetry is broken beyond the tolerance"),
+                              a->group->name);
+      gtk_label_set_label (self->symmetry_label, text);
+      return;
+    }
+  species = sym->size > 1
+            /* TRANSLATORS: "E (modes 4–5)": a degenerate set */
+            ? g_strdup_printf (_("%s (modes %zu–%zu)"), sym->label, sym->first + 1, sym->first + sym->size)
+            : g_strdup (sym->label);
+  /* TRANSLATORS: "Species A1 in C2v · IR active · Raman active" */
+  text = g_strdup_printf (_("Species %s in %s · %s · %s"), species, a->group->name,
+                          sym->ir_active ? _("IR active") : _("IR inactive"),
+                          sym->raman_active ? _("Raman active") : _("Raman inactive"));
+  gtk_label_set_label (self->symmetry_label, text);
+}
+
+/* The families, then the largest coordinates, from the core. */
+static void
+show_character (QvModeDetail *self, const QvDocumentAnalysis *a, gsize k)
+{
+  const QvCharacterItem *items = NULL;
+  g_autofree char *summary = NULL;
+  GString *coords;
+  gsize n;
+  double described;
+
+  gtk_widget_set_visible (self->character_title, a != NULL);
+  gtk_widget_set_visible (GTK_WIDGET (self->character_label), a != NULL);
+  gtk_widget_set_visible (GTK_WIDGET (self->coordinates_label), a != NULL && a->character != NULL);
+  if (a == NULL)
+    return;
+  if (a->character == NULL)
+    {
+      gtk_label_set_label (self->character_label, a->character_note ? a->character_note : "");
+      return;
+    }
+  summary = qv_mode_character_summary (a->character, k, QV_MODE_DETAIL_MAX_FAMILIES);
+  gtk_label_set_label (self->character_label, summary);
+  n = qv_mode_character_items (a->character, k, &items);
+  coords = g_string_new (NULL);
+  for (gsize i = 0; i < MIN (n, QV_MODE_DETAIL_MAX_COORDINATES); i++)
+    {
+      if (items[i].share < 0.005)
+        break;
+      g_string_append_printf (coords, "%s%s %.0f %%", coords->len ? ", " : "", items[i].name,
+                              100.0 * items[i].share);
+    }
+  described = qv_mode_character_described (a->character, k);
+  if (described < 0.95)
+    {
+      /* TRANSLATORS: the part of the mode the internal coordinates describe */
+      g_autofree char *part = g_strdup_printf (_("the coordinates describe %.0f %% of this mode"),
+                                               100.0 * described);
+      g_string_append_printf (coords, "%s%s", coords->len ? " · " : "", part);
+    }
+  gtk_label_set_label (self->coordinates_label, coords->str);
+  gtk_widget_set_visible (GTK_WIDGET (self->coordinates_label), coords->len > 0);
+  g_string_free (coords, TRUE);
 }
 
 static void
@@ -58,8 +142,12 @@ qv_mode_detail_show (QvModeDetail *self, QvDocument *doc, int k)
       gtk_label_set_label (self->facts_label, "");
       gtk_label_set_label (self->mixing_label, "");
       gtk_widget_set_visible (self->atoms_title, FALSE);
+      show_symmetry (self, NULL, 0);
+      show_character (self, NULL, 0);
       return;
     }
+  show_symmetry (self, qv_document_get_analysis (doc), (gsize) k);
+  show_character (self, qv_document_get_analysis (doc), (gsize) k);
   gtk_widget_set_visible (self->atoms_title, TRUE);
   wn = qv_mode_set_wavenumber (m, (gsize) k);
   heading = qv_mode_set_is_imaginary (m, (gsize) k)
@@ -134,6 +222,18 @@ qv_mode_detail_get_heading (QvModeDetail *self)
 }
 
 const char *
+qv_mode_detail_get_symmetry (QvModeDetail *self)
+{
+  return gtk_label_get_label (self->symmetry_label);
+}
+
+const char *
+qv_mode_detail_get_character (QvModeDetail *self)
+{
+  return gtk_label_get_label (self->character_label);
+}
+
+const char *
 qv_mode_detail_get_mixing (QvModeDetail *self)
 {
   return gtk_label_get_label (self->mixing_label);
@@ -158,6 +258,10 @@ qv_mode_detail_class_init (QvModeDetailClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvModeDetail, box);
   gtk_widget_class_bind_template_child (widget_class, QvModeDetail, heading_label);
   gtk_widget_class_bind_template_child (widget_class, QvModeDetail, facts_label);
+  gtk_widget_class_bind_template_child (widget_class, QvModeDetail, symmetry_label);
+  gtk_widget_class_bind_template_child (widget_class, QvModeDetail, character_title);
+  gtk_widget_class_bind_template_child (widget_class, QvModeDetail, character_label);
+  gtk_widget_class_bind_template_child (widget_class, QvModeDetail, coordinates_label);
   gtk_widget_class_bind_template_child (widget_class, QvModeDetail, atoms_title);
   gtk_widget_class_bind_template_child (widget_class, QvModeDetail, atoms_grid);
   gtk_widget_class_bind_template_child (widget_class, QvModeDetail, mixing_label);
