@@ -43,8 +43,9 @@ typedef struct {
   double (*translations)[3];
 
   gsize n_atoms;               /* of the input */
-  gsize *equivalent_atoms;     /* per input atom: the lowest-numbered atom of
-                                  its orbit */
+  gsize *equivalent_atoms;     /* per input atom: spglib's representative of
+                                  its orbit (one index, the same for every
+                                  atom of the orbit) */
 
   /* Input → standardised setting: (a_s b_s c_s) = (a b c) P⁻¹ as columns,
    * x_s = P x + p (spglib's convention). */
