@@ -104,6 +104,7 @@ qv_app_actions_install (QvApplication *app)
     { "win.next-mode", { "<Alt>Down", NULL } },
     { "win.previous-mode", { "<Alt>Up", NULL } },
     { "win.toggle-export-pane", { "F9", NULL } },
+    { "win.toggle-spectrum", { "F8", NULL } },
     { "win.close", { "<Control>w", NULL } },
   };
 

@@ -1,7 +1,7 @@
 /* qv-window-actions.c — win.play, win.next-mode, win.previous-mode,
  * win.toggle-arrows, win.toggle-participation, win.toggle-orthographic,
  * win.view-along-x/y/z (and -minus-), win.reset-view, win.toggle-export-pane,
- * win.reset-masses, win.level-up/down, win.cancel, win.open-recent, win.close.
+ * win.toggle-spectrum, win.reset-masses, win.level-up/down, win.cancel, win.open-recent, win.close.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "qv-camera.h"
 #include "qv-preferences.h"
@@ -84,7 +84,7 @@ close_window (GSimpleAction *a, GVariant *p, gpointer win)
 static const char *const document_actions[] = {
   "play", "next-mode", "previous-mode", "view-along-x", "view-along-y", "view-along-z",
   "view-along-minus-x", "view-along-minus-y", "view-along-minus-z", "reset-view",
-  "level-up", "level-down", "toggle-export-pane",
+  "level-up", "level-down", "toggle-export-pane", "toggle-spectrum",
 };
 
 void
@@ -116,6 +116,7 @@ qv_window_actions_install (QvWindow *self)
   };
   g_autoptr(GPropertyAction) play = NULL;
   g_autoptr(GPropertyAction) pane = NULL;
+  g_autoptr(GPropertyAction) spectrum = NULL;
 
   static const struct { const char *trigger; const char *action; } keys[] = {
     { "space", "win.play" },
@@ -146,6 +147,8 @@ qv_window_actions_install (QvWindow *self)
   g_action_map_add_action (G_ACTION_MAP (self), G_ACTION (play));
   pane = g_property_action_new ("toggle-export-pane", qv_window_get_export_revealer (self), "reveal-child");
   g_action_map_add_action (G_ACTION_MAP (self), G_ACTION (pane));
+  spectrum = g_property_action_new ("toggle-spectrum", qv_window_get_spectrum_revealer (self), "reveal-child");
+  g_action_map_add_action (G_ACTION_MAP (self), G_ACTION (spectrum));
 }
 
 static void

@@ -34,6 +34,9 @@ struct _QvWindow
   QvModeDetail *mode_detail;
   GtkRevealer *export_revealer;
   QvExportPane *export_pane;
+  GtkWidget *spectrum_button;
+  GtkRevealer *spectrum_revealer;
+  QvSpectrumView *spectrum_view;
   QvAtomPopover *atom_popover;
 
   QvDocument *document;
@@ -55,6 +58,7 @@ show_selected_mode (QvWindow *self)
   const QvModeSet *modes = self->document ? qv_document_get_modes (self->document) : NULL;
 
   qv_mode_detail_show (self->mode_detail, self->document, k);
+  qv_spectrum_view_set_selected (self->spectrum_view, k);
   if (modes == NULL || k < 0)
     {
       qv_mode_view_set_mode (self->mode_view, NULL, NULL, 0.0);
@@ -112,6 +116,7 @@ update_title (QvWindow *self)
   /* Play and the export pane need a document. */
   gtk_widget_set_visible (GTK_WIDGET (self->play_button), self->document != NULL);
   gtk_widget_set_visible (self->export_button, self->document != NULL);
+  gtk_widget_set_visible (self->spectrum_button, self->document != NULL);
   if (self->document == NULL)
     {
       gtk_label_set_label (self->title_label, _("Quaver"));
@@ -137,6 +142,7 @@ document_changed (QvWindow *self)
   const int k = qv_mode_panel_get_selected (self->mode_panel);
 
   qv_mode_panel_set_document (self->mode_panel, self->document);
+  qv_spectrum_view_set_document (self->spectrum_view, self->document);
   qv_mode_panel_select (self->mode_panel, k);
   qv_mode_view_set_structure (self->mode_view, qv_document_get_structure (self->document), FALSE);
   show_selected_mode (self);
@@ -162,6 +168,7 @@ qv_window_set_document (QvWindow *self, QvDocument *doc)
     }
   self->changed_id = g_signal_connect_swapped (doc, "changed", G_CALLBACK (document_changed), self);
   qv_mode_panel_set_document (self->mode_panel, doc);
+  qv_spectrum_view_set_document (self->spectrum_view, doc);
   qv_mode_view_set_structure (self->mode_view, qv_document_get_structure (doc), TRUE);
   qv_mode_panel_select (self->mode_panel, 0);
   show_selected_mode (self);
@@ -588,6 +595,13 @@ atom_activated (QvModeView *view, guint atom, double x, double y, gpointer data)
   qv_window_show_atom (QV_WINDOW (data), atom, x, y);
 }
 
+/* A peak of the spectrum was clicked. */
+static void
+spectrum_mode_activated (QvSpectrumView *view, int mode, gpointer data)
+{
+  qv_mode_panel_select (QV_WINDOW (data)->mode_panel, mode);
+}
+
 /* ---- navigation ---- */
 
 void
@@ -701,6 +715,7 @@ qv_window_class_init (QvWindowClass *klass)
   g_type_ensure (QV_TYPE_MODE_PANEL);
   g_type_ensure (QV_TYPE_MODE_DETAIL);
   g_type_ensure (QV_TYPE_EXPORT_PANE);
+  g_type_ensure (QV_TYPE_SPECTRUM_VIEW);
   gtk_widget_class_set_template_from_resource (widget_class, "/org/quaverlab/Quaver/gui/qv-window.ui");
   gtk_widget_class_bind_template_child (widget_class, QvWindow, title_label);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, subtitle_label);
@@ -718,6 +733,9 @@ qv_window_class_init (QvWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvWindow, mode_detail);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, export_revealer);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, export_pane);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, spectrum_button);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, spectrum_revealer);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, spectrum_view);
 }
 
 static void
@@ -768,6 +786,7 @@ qv_window_init (QvWindow *self)
   g_signal_connect_object (self->mode_view, "notify::playing", G_CALLBACK (play_changed), self,
                            G_CONNECT_SWAPPED);
   g_signal_connect_object (self->mode_view, "atom-activated", G_CALLBACK (atom_activated), self, 0);
+  g_signal_connect_object (self->spectrum_view, "mode-activated", G_CALLBACK (spectrum_mode_activated), self, 0);
   play_changed (self);
 
   self->atom_popover = qv_atom_popover_new ();
@@ -797,6 +816,8 @@ QvModePanel *qv_window_get_mode_panel (QvWindow *self) { return self->mode_panel
 QvModeView *qv_window_get_mode_view (QvWindow *self) { return self->mode_view; }
 QvMotionBar *qv_window_get_motion_bar (QvWindow *self) { return self->motion_bar; }
 QvModeDetail *qv_window_get_mode_detail (QvWindow *self) { return self->mode_detail; }
+QvSpectrumView *qv_window_get_spectrum_view (QvWindow *self) { return self->spectrum_view; }
+GtkRevealer *qv_window_get_spectrum_revealer (QvWindow *self) { return self->spectrum_revealer; }
 
 GtkRevealer *
 qv_window_get_export_revealer (QvWindow *self)

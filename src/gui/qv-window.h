@@ -8,6 +8,7 @@
 #include "qv-mode-view.h"
 #include "qv-motion-bar.h"
 #include "qv-mode-detail.h"
+#include "qv-spectrum-view.h"
 
 G_BEGIN_DECLS
 
@@ -43,6 +44,9 @@ QvModePanel *qv_window_get_mode_panel (QvWindow *self);
 QvModeView *qv_window_get_mode_view (QvWindow *self);
 QvMotionBar *qv_window_get_motion_bar (QvWindow *self);
 QvModeDetail *qv_window_get_mode_detail (QvWindow *self);
+/* The spectrum pane under the view and its revealer (win.toggle-spectrum). */
+QvSpectrumView *qv_window_get_spectrum_view (QvWindow *self);
+GtkRevealer *qv_window_get_spectrum_revealer (QvWindow *self);
 /* The error dialog on screen, or NULL. */
 GtkWindow *qv_window_get_error_dialog (QvWindow *self);
 
