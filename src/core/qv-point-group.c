@@ -38,8 +38,55 @@ typedef struct {
   double *p;                   /* centred positions, 3n */
   guint *kind;
   double tol;
-  gboolean *used;
+  guint *used;                 /* == stamp: taken in this op_maps call */
+  guint stamp;
+  double cell;                 /* grid spacing: 3 × tol */
+  GHashTable *grid;            /* cell key → first atom + 1 */
+  gsize *next;                 /* atoms of one cell: next + 1, 0 ends */
 } Ctx;
+
+static guint64
+pack_cell (gint64 i, gint64 j, gint64 k)
+{
+  return ((guint64) (i & 0x1fffff) << 42) | ((guint64) (j & 0x1fffff) << 21) | (guint64) (k & 0x1fffff);
+}
+
+static guint64
+grid_key (const Ctx *c, const double *p, int dx, int dy, int dz)
+{
+  return pack_cell ((gint64) floor (p[0] / c->cell) + dx, (gint64) floor (p[1] / c->cell) + dy,
+                    (gint64) floor (p[2] / c->cell) + dz);
+}
+
+/* A grid of cells 3 × tol wide, so that the atoms within 3 × tol of a point
+ * lie in its 27 neighbouring cells. */
+static void
+grid_build (Ctx *c)
+{
+  c->cell = 3 * c->tol;
+  c->grid = g_hash_table_new (g_int64_hash, g_int64_equal);
+  c->next = g_new0 (gsize, c->n);
+  for (gsize a = c->n; a-- > 0;)
+    {
+      guint64 *key = g_new (guint64, 1);
+      *key = grid_key (c, c->p + 3 * a, 0, 0, 0);
+      gpointer old = g_hash_table_lookup (c->grid, key);
+      c->next[a] = GPOINTER_TO_SIZE (old);
+      g_hash_table_replace (c->grid, key, GSIZE_TO_POINTER (a + 1));
+    }
+}
+
+static void
+grid_free (Ctx *c)
+{
+  GHashTableIter it;
+  gpointer key;
+  g_hash_table_iter_init (&it, c->grid);
+  while (g_hash_table_iter_next (&it, &key, NULL))
+    g_free (key);
+  g_hash_table_destroy (c->grid);
+  g_free (c->next);
+}
 
 typedef struct {
   double v[3];
@@ -188,27 +235,45 @@ static gboolean
 op_maps (Ctx *c, const double *r, double tol, gsize *perm, double *dev)
 {
   double tol2 = tol * tol, worst = 0;
-  memset (c->used, 0, c->n * sizeof (gboolean));
+  if (++c->stamp == 0)
+    {
+      memset (c->used, 0, c->n * sizeof (guint));
+      c->stamp = 1;
+    }
   for (gsize a = 0; a < c->n; a++)
     {
       double img[3], best = G_MAXDOUBLE;
       gssize hit = -1;
       mat_vec (r, c->p + 3 * a, img);
-      for (gsize b = 0; b < c->n; b++)
+      /* only the cells the ball of radius @tol around the image touches */
+      gint64 lo[3], hi[3];
+      for (int q = 0; q < 3; q++)
         {
-          if (c->kind[b] != c->kind[a])
-            continue;
-          double dx = img[0] - c->p[3 * b], dy = img[1] - c->p[3 * b + 1], dz = img[2] - c->p[3 * b + 2];
-          double d2 = dx * dx + dy * dy + dz * dz;
-          if (d2 < best)
+          lo[q] = (gint64) floor ((img[q] - tol) / c->cell);
+          hi[q] = (gint64) floor ((img[q] + tol) / c->cell);
+        }
+      for (gint64 i = lo[0]; i <= hi[0]; i++)
+        for (gint64 j = lo[1]; j <= hi[1]; j++)
+          for (gint64 k = lo[2]; k <= hi[2]; k++)
+        {
+          guint64 key = pack_cell (i, j, k);
+          for (gsize b1 = GPOINTER_TO_SIZE (g_hash_table_lookup (c->grid, &key)); b1; b1 = c->next[b1 - 1])
             {
-              best = d2;
-              hit = (gssize) b;
+              gsize b = b1 - 1;
+              if (c->kind[b] != c->kind[a])
+                continue;
+              double dx = img[0] - c->p[3 * b], dy = img[1] - c->p[3 * b + 1], dz = img[2] - c->p[3 * b + 2];
+              double d2 = dx * dx + dy * dy + dz * dz;
+              if (d2 < best)
+                {
+                  best = d2;
+                  hit = (gssize) b;
+                }
             }
         }
-      if (hit < 0 || best > tol2 || c->used[hit])
+      if (hit < 0 || best > tol2 || c->used[hit] == c->stamp)
         return FALSE;
-      c->used[hit] = TRUE;
+      c->used[hit] = c->stamp;
       if (perm)
         perm[a] = (gsize) hit;
       if (best > worst)
@@ -246,12 +311,19 @@ add_dir (DirSet *set, const double *v, double min_norm)
   if (!(n > min_norm))
     return;
   u[0] /= n; u[1] /= n; u[2] /= n;
+  const double reach = 1e-3;    /* > the chord of MERGE_COS */
   for (int sign = 1; sign >= -1; sign -= 2)
     {
       double w[3] = { sign * u[0], sign * u[1], sign * u[2] };
-      for (int dx = -1; dx <= 1; dx++)
-        for (int dy = -1; dy <= 1; dy++)
-          for (int dz = -1; dz <= 1; dz++)
+      int lo[3], hi[3];
+      for (int q = 0; q < 3; q++)
+        {
+          lo[q] = (int) (floor ((w[q] - reach) * GRID) - floor (w[q] * GRID));
+          hi[q] = (int) (floor ((w[q] + reach) * GRID) - floor (w[q] * GRID));
+        }
+      for (int dx = lo[0]; dx <= hi[0]; dx++)
+        for (int dy = lo[1]; dy <= hi[1]; dy++)
+          for (int dz = lo[2]; dz <= hi[2]; dz++)
             {
               guint idx = GPOINTER_TO_UINT (g_hash_table_lookup (set->cells,
                                               GSIZE_TO_POINTER ((gsize) cell_key (w, dx, dy, dz))));
@@ -613,7 +685,7 @@ qv_point_group_detect (const QvStructure *s, double tolerance, GError **error)
           return NULL;
         }
 
-  Ctx c = { n, g_new (double, 3 * n), g_new0 (guint, n), tolerance, g_new0 (gboolean, n) };
+  Ctx c = { n, g_new (double, 3 * n), g_new0 (guint, n), tolerance, g_new0 (guint, n), 0 };
   g_autofree double *masses = g_new (double, n);
   double com[3];
   qv_structure_center_of_mass (s, com);
@@ -632,6 +704,7 @@ qv_point_group_detect (const QvStructure *s, double tolerance, GError **error)
           }
     }
 
+  grid_build (&c);
   QvPointGroup *g = g_new0 (QvPointGroup, 1);
   g->tolerance = tolerance;
   g->n_atoms = n;
@@ -1011,10 +1084,12 @@ qv_point_group_detect (const QvStructure *s, double tolerance, GError **error)
   if (fam == FAM_DINFH)
     g->symmetry_number = 2;
   g_array_free (ops, TRUE);
+  grid_free (&c);
   g_free (c.p); g_free (c.kind); g_free (c.used);
   return g;
 
 fail:
+  grid_free (&c);
   g_free (c.p); g_free (c.kind); g_free (c.used);
   qv_point_group_free (g);
   return NULL;
