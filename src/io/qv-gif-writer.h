@@ -56,8 +56,9 @@ typedef struct {
  * used when all frames together have at most 256 (255 with transparency),
  * so few-colour pictures are lossless; otherwise a median-cut palette
  * refined by k-means over all frames, nearest colour per pixel in RGB.
- * Frames after the first that differ from the one before only in part are
- * written as that rectangle ("do not dispose"). Progress goes from 0 to 1
+ * Opaque frames after the first are written as the rectangle that changed
+ * ("do not dispose"), its unchanged pixels as a spare transparent index
+ * when that makes longer runs for LZW. Progress goes from 0 to 1
  * over palette and frames; cancelling fails with QV_ERROR_CANCELLED.
  * QV_ERROR_USAGE for no frames, a bad size or a missing frame,
  * QV_ERROR_LIMIT for a frame larger than GIF or this encoder allows,
