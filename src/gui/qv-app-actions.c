@@ -105,6 +105,7 @@ qv_app_actions_install (QvApplication *app)
     { "win.previous-mode", { "<Alt>Up", NULL } },
     { "win.toggle-export-pane", { "F9", NULL } },
     { "win.toggle-spectrum", { "F8", NULL } },
+    { "win.compare", { "<Control><Shift>o", NULL } },
     { "win.close", { "<Control>w", NULL } },
   };
 

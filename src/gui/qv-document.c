@@ -301,6 +301,18 @@ qv_document_running_workers (void)
   return (guint) g_atomic_int_get (&running_workers);
 }
 
+void
+qv_document_worker_hold (void)
+{
+  g_atomic_int_inc (&running_workers);
+}
+
+void
+qv_document_worker_release (void)
+{
+  g_atomic_int_dec_and_test (&running_workers);
+}
+
 static void
 load_thread (GTask *task, gpointer source_object, gpointer task_data, GCancellable *cancellable)
 {

@@ -95,6 +95,10 @@ void qv_document_solve_async (QvDocument *doc, QvStructure *structure,
  * cancel (a LAPACK call cannot be interrupted). The process must not run
  * its exit handlers under them: OpenBLAS frees its buffers there. */
 guint qv_document_running_workers (void);
+/* Other workers of the app that call the core's LAPACK code (comparing
+ * mode sets) count themselves in while they run. */
+void qv_document_worker_hold (void);
+void qv_document_worker_release (void);
 
 gboolean qv_document_solve_finish (QvDocument *doc, GAsyncResult *result, GError **error);
 

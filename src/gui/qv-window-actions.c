@@ -1,7 +1,7 @@
 /* qv-window-actions.c — win.play, win.next-mode, win.previous-mode,
  * win.toggle-arrows, win.toggle-participation, win.toggle-orthographic,
  * win.view-along-x/y/z (and -minus-), win.reset-view, win.toggle-export-pane,
- * win.toggle-spectrum, win.reset-masses, win.level-up/down, win.cancel, win.open-recent, win.close.
+ * win.toggle-spectrum, win.compare, win.reset-masses, win.level-up/down, win.cancel, win.open-recent, win.close.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "qv-camera.h"
 #include "qv-preferences.h"
@@ -75,6 +75,12 @@ open_recent (GSimpleAction *a, GVariant *p, gpointer win)
 }
 
 static void
+compare (GSimpleAction *a, GVariant *p, gpointer win)
+{
+  qv_window_choose_compare (win);
+}
+
+static void
 close_window (GSimpleAction *a, GVariant *p, gpointer win)
 {
   gtk_window_close (win);
@@ -84,7 +90,7 @@ close_window (GSimpleAction *a, GVariant *p, gpointer win)
 static const char *const document_actions[] = {
   "play", "next-mode", "previous-mode", "view-along-x", "view-along-y", "view-along-z",
   "view-along-minus-x", "view-along-minus-y", "view-along-minus-z", "reset-view",
-  "level-up", "level-down", "toggle-export-pane", "toggle-spectrum",
+  "level-up", "level-down", "toggle-export-pane", "toggle-spectrum", "compare",
 };
 
 void
@@ -106,6 +112,7 @@ qv_window_actions_install (QvWindow *self)
     { "cancel", cancel },
     { "open-recent", open_recent, "s" },
     { "close", close_window },
+    { "compare", compare },
   };
   QvPreferences *prefs = qv_preferences_get_default ();
   static const struct { const char *action; const char *property; } toggles[] = {

@@ -460,6 +460,68 @@ qv_window_choose_file (QvWindow *self)
   gtk_native_dialog_show (GTK_NATIVE_DIALOG (chooser));
 }
 
+/* ---- comparing ---- */
+
+QvCompareWindow *
+qv_window_compare_with (QvWindow *self, const char *path)
+{
+  QvDocumentSource source = { .geometry = (char *) path };
+  QvCompareWindow *compare;
+
+  if (self->document == NULL)
+    return NULL;
+  compare = qv_compare_window_new (GTK_WINDOW (self), self->document);
+  qv_compare_window_load (compare, &source);
+  gtk_window_present (GTK_WINDOW (compare));
+  return compare;
+}
+
+static void
+compare_chooser_response (GtkNativeDialog *chooser, int response, gpointer data)
+{
+  QvWindow *self = data;
+
+  if (response == GTK_RESPONSE_ACCEPT)
+    {
+      g_autoptr(GFile) file = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (chooser));
+      g_autofree char *path = file ? g_file_get_path (file) : NULL;
+
+      if (path && qv_input_is_bundle (path))
+        qv_window_compare_with (self, path);
+      else if (file)
+        {
+          g_autoptr(GError) error = g_error_new (QV_ERROR, QV_ERROR_USAGE, "%s",
+                                                 _("Compare takes a Quaver bundle (*.quaver.json) with a "
+                                                   "Hessian or precomputed modes of the same atoms."));
+          qv_window_show_error (self, _("This file cannot be compared"), error);
+        }
+    }
+  gtk_native_dialog_destroy (chooser);
+  g_object_unref (chooser);
+  g_object_unref (self);
+}
+
+void
+qv_window_choose_compare (QvWindow *self)
+{
+  GtkFileChooserNative *chooser;
+  GtkFileFilter *filter;
+
+  if (self->document == NULL)
+    return;
+  chooser = gtk_file_chooser_native_new (_("Compare With a Bundle"), GTK_WINDOW (self),
+                                         GTK_FILE_CHOOSER_ACTION_OPEN, _("_Compare"), _("_Cancel"));
+  filter = gtk_file_filter_new ();
+  gtk_file_filter_set_name (filter, _("Quaver bundles (*.quaver.json)"));
+  gtk_file_filter_add_pattern (filter, "*.quaver.json");
+  gtk_file_filter_add_pattern (filter, "*.json");
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), filter);
+  g_object_unref (filter);
+  gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
+  g_signal_connect (chooser, "response", G_CALLBACK (compare_chooser_response), g_object_ref (self));
+  gtk_native_dialog_show (GTK_NATIVE_DIALOG (chooser));
+}
+
 static gboolean
 files_dropped (GtkDropTarget *target, const GValue *value, double x, double y, gpointer data)
 {

@@ -3,6 +3,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #pragma once
 #include <gtk/gtk.h>
+#include "qv-compare-window.h"
 #include "qv-document.h"
 #include "qv-mode-panel.h"
 #include "qv-mode-view.h"
@@ -25,6 +26,11 @@ void qv_window_open_file (QvWindow *self, GFile *file);
 void qv_window_open_source (QvWindow *self, const QvDocumentSource *source);
 /* The file chooser. */
 void qv_window_choose_file (QvWindow *self);
+/* "Compare With…": a bundle chosen, then a compare window for it. */
+void qv_window_choose_compare (QvWindow *self);
+/* A compare window of the document's modes against those of @path (a
+ * bundle), presented; for tests and the chooser. */
+QvCompareWindow *qv_window_compare_with (QvWindow *self, const char *path);
 /* Shows @doc (for tests and benchmarks that build one in memory). */
 void qv_window_set_document (QvWindow *self, QvDocument *doc);
 
