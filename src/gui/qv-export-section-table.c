@@ -27,8 +27,9 @@ struct _QvExportSectionTable
 
 G_DEFINE_FINAL_TYPE (QvExportSectionTable, qv_export_section_table, GTK_TYPE_WIDGET)
 
-/* In the order of QvTableColumn. */
-static const char *const column_labels[QV_N_COLUMNS] = {
+/* In the order of QvTableColumn; a column added to the table later shows
+ * under its command-line name until it has a label here. */
+static const char *const column_labels[] = {
   N_("Index"),
   N_("Wavenumber"),
   N_("Reduced mass"),
@@ -38,6 +39,7 @@ static const char *const column_labels[QV_N_COLUMNS] = {
   N_("Thermal RMS at T"),
   N_("Collectivity"),
   N_("Top atoms"),
+  N_("Symmetry"),
 };
 
 /* In the order of the format drop-down's items. */
@@ -296,7 +298,9 @@ qv_export_section_table_init (QvExportSectionTable *self)
   qv_table_columns_parse (QV_TABLE_DEFAULT_COLUMNS, defaults, &n_defaults, &error);
   for (int c = 0; c < QV_N_COLUMNS; c++)
     {
-      GtkWidget *check = gtk_check_button_new_with_label (_(column_labels[c]));
+      GtkWidget *check = gtk_check_button_new_with_label ((gsize) c < G_N_ELEMENTS (column_labels)
+                                                          ? _(column_labels[c])
+                                                          : qv_table_column_name ((QvTableColumn) c));
       self->checks[c] = GTK_CHECK_BUTTON (check);
       for (gsize i = 0; i < n_defaults; i++)
         if (defaults[i] == (QvTableColumn) c)
