@@ -64,7 +64,7 @@ static void
 grid_build (Ctx *c)
 {
   c->cell = 3 * c->tol;
-  c->grid = g_hash_table_new (g_int64_hash, g_int64_equal);
+  c->grid = g_hash_table_new_full (g_int64_hash, g_int64_equal, g_free, NULL);
   c->next = g_new0 (gsize, c->n);
   for (gsize a = c->n; a-- > 0;)
     {
@@ -79,11 +79,6 @@ grid_build (Ctx *c)
 static void
 grid_free (Ctx *c)
 {
-  GHashTableIter it;
-  gpointer key;
-  g_hash_table_iter_init (&it, c->grid);
-  while (g_hash_table_iter_next (&it, &key, NULL))
-    g_free (key);
   g_hash_table_destroy (c->grid);
   g_free (c->next);
 }
