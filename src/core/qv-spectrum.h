@@ -22,6 +22,9 @@ const char *qv_line_shape_name (QvLineShape shape);
 #define QV_SPECTRUM_RANGE_MARGIN 10.0
 /* Largest number of grid points. */
 #define QV_SPECTRUM_MAX_POINTS 10000000
+/* Largest number of Lorentzian evaluations (lines × grid points) one
+ * spectrum may take (a few seconds); Gaussians are evaluated within 40 σ. */
+#define QV_SPECTRUM_MAX_WORK 2e9
 
 typedef struct {
   QvLineShape shape;
