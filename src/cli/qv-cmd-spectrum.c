@@ -626,6 +626,7 @@ qv_cmd_spectrum (int argc, char **argv)
       {
         QvSpectrumPlotOptions po;
         g_autofree char *title = NULL, *env_label = NULL;
+        g_autofree char *base = g_path_get_basename (input->name);
         gsize length = 0;
 
         qv_spectrum_plot_options_init (&po);
@@ -633,7 +634,7 @@ qv_cmd_spectrum (int argc, char **argv)
         po.height = plot_h;
         po.descending = descending;
         po.n_labels = (guint) labels;
-        title = g_strdup_printf ("%s — %s, %s FWHM %g cm\u207b\u00b9%s", input->name,
+        title = g_strdup_printf ("%s — %s, %s FWHM %g cm\u207b\u00b9%s", base,
                                  kind == KIND_IR ? "IR" : kind == KIND_RAMAN ? "Raman" : "Raman activity",
                                  qv_line_shape_name (so.shape), so.fwhm,
                                  scale != 1.0 ? ", scaled" : "");
