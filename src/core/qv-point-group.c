@@ -671,6 +671,13 @@ qv_point_group_detect (const QvStructure *s, double tolerance, GError **error)
       return NULL;
     }
   gsize n = s->n_atoms;
+  if (n == 1)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_INPUT,
+                   "a single atom has the symmetry of a sphere (Kh): no molecular point group, "
+                   "and no vibrations to label");
+      return NULL;
+    }
   for (gsize a = 0; a < n; a++)
     for (int i = 0; i < 3; i++)
       if (!isfinite (s->atoms[a].position[i]))

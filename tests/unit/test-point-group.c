@@ -296,7 +296,7 @@ pair_hessian (const QvStructure *s)
 }
 
 static void
-check_group (const Model *m, const char *name, guint sigma, gsize order)
+check_group_sets (const Model *m, const char *name, guint sigma, gsize order, gsize n_sets)
 {
   for (guint32 seed = 1; seed <= 3; seed++)
     {
@@ -334,6 +334,13 @@ check_group (const Model *m, const char *name, guint sigma, gsize order)
               assert_int_equal (s->atoms[perm[a]].z, s->atoms[a].z);
             }
         }
+      /* sets of equivalent atoms (counted by hand for each model) */
+      g_autofree gsize *sets = g_new (gsize, s->n_atoms);
+      assert_int_equal (qv_point_group_equivalent_atoms (g, sets), n_sets);
+      for (gsize a = 0; a < s->n_atoms; a++)
+        for (gsize b = 0; b < a; b++)
+          if (sets[a] == sets[b])
+            assert_int_equal (s->atoms[a].z, s->atoms[b].z);
       /* the table's classes partition the operations */
       const QvCharacterTable *t = qv_character_table_lookup (g->name);
       assert_non_null (t);
@@ -341,6 +348,29 @@ check_group (const Model *m, const char *name, guint sigma, gsize order)
       if (!qv_character_table_classify (t, g, classes, &error))
         fail_msg ("%s: %s", name, error->message);
     }
+}
+
+/* The number of sets of equivalent atoms, by hand: NH3 2, C6H6 2, CH4 2,
+ * CO2 2, HCN 3, N2H2 2, SF6 2, H2O 2, C2H6 2, C20 1, the C1 cluster 5,
+ * HOCl 3, the Ci molecule 4, the S4 one 3. */
+static gsize
+expected_sets (const char *name)
+{
+  static const struct { const char *g; gsize n; } t[] = {
+    { "C3v", 2 }, { "D6h", 2 }, { "Td", 2 }, { "Dinfh", 2 }, { "Cinfv", 3 }, { "C2h", 2 },
+    { "Oh", 2 }, { "C2v", 2 }, { "D3d", 2 }, { "Ih", 1 }, { "C1", 5 }, { "Cs", 3 }, { "Ci", 4 },
+    { "S4", 3 },
+  };
+  for (gsize i = 0; i < G_N_ELEMENTS (t); i++)
+    if (strcmp (t[i].g, name) == 0)
+      return t[i].n;
+  return 0;
+}
+
+static void
+check_group (const Model *m, const char *name, guint sigma, gsize order)
+{
+  check_group_sets (m, name, sigma, order, expected_sets (name));
 }
 
 /* Counts species over the vibrational modes: @expect is "2A1 2E" (a
@@ -471,6 +501,14 @@ test_bad_input (void **state)
   assert_null (qv_point_group_detect (s, 0, &error));
   assert_true (g_error_matches (error, QV_ERROR, QV_ERROR_INPUT));
   assert_non_null (strstr (error->message, "atom 3"));
+  g_clear_error (&error);
+  /* one atom: no molecular point group, said so */
+  const guint z1 = 18;
+  const double p1[3] = { 1, 2, 3 };
+  g_autoptr(QvStructure) one = qvt_structure (1, &z1, p1);
+  assert_null (qv_point_group_detect (one, 0, &error));
+  assert_true (g_error_matches (error, QV_ERROR, QV_ERROR_INPUT));
+  assert_non_null (strstr (error->message, "single atom"));
 }
 
 /* --- tables against the groups' own matrices ------------------------------------- */
