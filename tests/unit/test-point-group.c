@@ -4,8 +4,8 @@
  * Every geometry here is a model of our own, invented for the test (not
  * taken from any publication): ammonia-like, benzene-like, methane-like,
  * CO2-like, HCN-like, trans-diazene-like, SF6-like, water-like,
- * ethane-like (staggered), a dodecahedral C20-like cage, and low-symmetry
- * clusters. Their Hessians come from a pair potential of our own (invented):
+ * ethane-like (staggered), ethylene-like, XeF4-like, a dodecahedral
+ * C20-like cage, and low-symmetry clusters. Their Hessians come from a pair potential of our own (invented):
  * V = Σ ½ k_ij (r − 0.8 r_ij)² over all pairs, k_ij = k(Z_i, Z_j) e^(−r_ij),
  * evaluated at the model geometry, where the springs are stretched so that
  * every direction is stiff; the potential depends only on distances and
@@ -148,6 +148,28 @@ ethane (void)    /* staggered */
   add_atom (&m, 6, 0, 0, -0.77);
   ring (&m, 1, 3, 1.02, 1.16, 0);
   ring (&m, 1, 3, 1.02, -1.16, 60);
+  return m;
+}
+
+static Model
+ethylene (void)      /* planar, D2h */
+{
+  Model m = { 0 };
+  add_atom (&m, 6, 0, 0, 0.67);
+  add_atom (&m, 6, 0, 0, -0.67);
+  add_atom (&m, 1, 0, 0.92, 1.23);
+  add_atom (&m, 1, 0, -0.92, 1.23);
+  add_atom (&m, 1, 0, 0.92, -1.23);
+  add_atom (&m, 1, 0, -0.92, -1.23);
+  return m;
+}
+
+static Model
+square_planar (void) /* XeF4-like, D4h */
+{
+  Model m = { 0 };
+  add_atom (&m, 54, 0, 0, 0);
+  ring (&m, 9, 4, 1.95, 0, 0);
   return m;
 }
 
@@ -359,7 +381,7 @@ expected_sets (const char *name)
   static const struct { const char *g; gsize n; } t[] = {
     { "C3v", 2 }, { "D6h", 2 }, { "Td", 2 }, { "Dinfh", 2 }, { "Cinfv", 3 }, { "C2h", 2 },
     { "Oh", 2 }, { "C2v", 2 }, { "D3d", 2 }, { "Ih", 1 }, { "C1", 5 }, { "Cs", 3 }, { "Ci", 4 },
-    { "S4", 3 },
+    { "S4", 3 }, { "D2h", 2 }, { "D4h", 2 },
   };
   for (gsize i = 0; i < G_N_ELEMENTS (t); i++)
     if (strcmp (t[i].g, name) == 0)
@@ -450,6 +472,8 @@ static void test_c2h (void **state) { (void) state; Model m = diazene (); check_
 static void test_oh (void **state) { (void) state; Model m = sf6 (); check_group (&m, "Oh", 24, 48); }
 static void test_c2v (void **state) { (void) state; Model m = water (); check_group (&m, "C2v", 2, 4); }
 static void test_d3d (void **state) { (void) state; Model m = ethane (); check_group (&m, "D3d", 6, 12); }
+static void test_d2h (void **state) { (void) state; Model m = ethylene (); check_group (&m, "D2h", 4, 8); }
+static void test_d4h (void **state) { (void) state; Model m = square_planar (); check_group (&m, "D4h", 8, 16); }
 static void test_ih (void **state) { (void) state; Model m = dodecahedron (); check_group (&m, "Ih", 60, 120); }
 static void test_c1 (void **state) { (void) state; Model m = c1_cluster (); check_group (&m, "C1", 1, 1); }
 static void test_cs (void **state) { (void) state; Model m = cs_molecule (); check_group (&m, "Cs", 1, 2); }
@@ -785,6 +809,36 @@ test_modes_d3d (void **state)
   check_modes (&m, "3A1g 3Eg A1u 2A2u 3Eu", "A2u Eu", "A1g Eg");
 }
 
+/* C2H4-like, D2h with Mulliken's axes (x normal to the plane, z along C=C;
+ * from memory): E C2(z) C2(y) C2(x) i σ(xy) σ(xz) σ(yz); unshifted 6, 2,
+ * 0, 0, 0, 0, 2, 6; χ per atom 3, −1, −1, −1, −3, 1, 1, 1; Γ3N = (18, −2,
+ * 0, 0, 0, 0, 2, 6): n_i = (18χE − 2χC2(z) + 2χσ(xz) + 6χσ(yz))/8 →
+ * 3Ag + B1g + 2B2g + 3B3g + Au + 3B1u + 3B2u + 2B3u. Γtrans = B1u + B2u +
+ * B3u, Γrot = B1g + B2g + B3g → Γvib = 3Ag + B2g + 2B3g + Au + 2B1u +
+ * 2B2u + B3u. IR: B1u, B2u, B3u; Raman: Ag, B1g, B2g, B3g; Au silent. */
+static void
+test_modes_d2h (void **state)
+{
+  (void) state;
+  Model m = ethylene ();
+  check_modes (&m, "3Ag B2g 2B3g Au 2B1u 2B2u B3u", "B1u B2u B3u", "Ag B1g B2g B3g");
+}
+
+/* XeF4-like, D4h with C2' through the F atoms (x and y), σv ⊃ C2' (product
+ * classes E 2C4 C2 2C2' 2C2'' i 2S4 σh 2σv 2σd): unshifted 5, 1, 1, 3, 1,
+ * 1, 1, 5, 3, 1; χ per atom 3, 1, −1, −1, −1, −3, −1, 1, 1, 1; Γ3N = (15,
+ * 1, −1, −3, −1, −3, −1, 5, 3, 1): g species n = (12χE + 4χC2)/16, u species
+ * n = (18χE + 4χC4 − 6χC2 − 12χC2' − 4χC2'')/16 → A1g + A2g + B1g + B2g + Eg
+ * + 2A2u + B2u + 3Eu. Γtrans = A2u + Eu, Γrot = A2g + Eg → Γvib = A1g + B1g
+ * + B2g + A2u + B2u + 2Eu. IR: A2u, Eu; Raman: A1g, B1g, B2g; B2u silent. */
+static void
+test_modes_d4h (void **state)
+{
+  (void) state;
+  Model m = square_planar ();
+  check_modes (&m, "A1g B1g B2g A2u B2u 2Eu", "A2u Eu", "A1g B1g B2g");
+}
+
 /* A Hessian with its symmetry broken (a random symmetric perturbation of
  * 1 % of its largest element) loses species; averaged over the group it
  * gets them back, the same as the exact one. */
@@ -878,6 +932,8 @@ main (void)
     cmocka_unit_test (test_oh),
     cmocka_unit_test (test_c2v),
     cmocka_unit_test (test_d3d),
+    cmocka_unit_test (test_d2h),
+    cmocka_unit_test (test_d4h),
     cmocka_unit_test (test_ih),
     cmocka_unit_test (test_c1),
     cmocka_unit_test (test_cs),
@@ -896,6 +952,8 @@ main (void)
     cmocka_unit_test (test_modes_oh),
     cmocka_unit_test (test_modes_c2v),
     cmocka_unit_test (test_modes_d3d),
+    cmocka_unit_test (test_modes_d2h),
+    cmocka_unit_test (test_modes_d4h),
     cmocka_unit_test (test_symmetrize_hessian),
     cmocka_unit_test (test_align),
   };
