@@ -205,98 +205,174 @@ jacobi (double *a, double *v, gsize n)
     }
 }
 
+/* T_g v for operation @op (R on each atom's block, moved to the image atom). */
+static void
+apply_op (const QvPointGroup *g, gsize op, const double *v, double *out)
+{
+  const double *r = g->operations + 9 * op;
+  const gsize *perm = g->permutations + op * g->n_atoms;
+  for (gsize a = 0; a < g->n_atoms; a++)
+    for (int i = 0; i < 3; i++)
+      out[3 * perm[a] + i] = r[3 * i] * v[3 * a] + r[3 * i + 1] * v[3 * a + 1] + r[3 * i + 2] * v[3 * a + 2];
+}
+
+static gboolean
+is_involution (const double *r)
+{
+  for (int i = 0; i < 3; i++)
+    for (int j = 0; j < 3; j++)
+      {
+        double s = r[3 * i] * r[j] + r[3 * i + 1] * r[3 + j] + r[3 * i + 2] * r[6 + j];
+        if (fabs (s - (i == j)) > 1e-6)
+          return FALSE;
+      }
+  return TRUE;
+}
+
+static gboolean
+commute (const double *a, const double *b)
+{
+  for (int i = 0; i < 3; i++)
+    for (int j = 0; j < 3; j++)
+      {
+        double ab = 0, ba = 0;
+        for (int k = 0; k < 3; k++)
+          {
+            ab += a[3 * i + k] * b[3 * k + j];
+            ba += b[3 * i + k] * a[3 * k + j];
+          }
+        if (fabs (ab - ba) > 1e-6)
+          return FALSE;
+      }
+  return TRUE;
+}
+
 gsize
 qv_symmetry_align_degenerate (const QvSymmetryReport *rep, QvModeSet *modes)
 {
   const QvPointGroup *g = rep->group;
   if (rep->table == NULL || modes->n_atoms != g->n_atoms)
     return 0;
-  gsize na = g->n_atoms, dim = 3 * na, aligned = 0;
+  gsize dim = 3 * g->n_atoms, aligned = 0;
   g_autofree gsize *classes = g_new (gsize, g->order);
   if (!qv_character_table_classify (rep->table, g, classes, NULL))
     return 0;
-  g_autofree double *tl = g_new (double, dim * 3);
-  g_autofree double *old = g_new (double, dim * 3);
+  /* the involutions (C2, σ, i) in the table's class order */
+  g_autofree gsize *invol = g_new (gsize, g->order);
+  gsize n_invol = 0;
+  for (gsize c = 1; c < qv_character_table_n_classes (rep->table); c++)
+    for (gsize q = 0; q < g->order; q++)
+      if (classes[q] == c && is_involution (g->operations + 9 * q))
+        invol[n_invol++] = q;
+  g_autofree double *basis = g_new (double, dim * MAX_SET);
+  g_autofree double *tv = g_new (double, dim);
+  g_autofree gsize *picked = g_new (gsize, n_invol + 1);
   for (gsize k = 0; k < rep->n_modes; k++)
     {
       const QvModeSymmetry *m = &rep->modes[k];
       gsize n = m->size;
-      if (m->first != k || !m->defined || n < 2 || n > 3)
+      if (m->first != k || !m->defined || n < 2 || n > MAX_SET)
         continue;
-      /* the first involution (R² = 1) in class order that is not ±1 on the set */
-      for (gsize c = 1; c < qv_character_table_n_classes (rep->table); c++)
+      for (gsize j = 0; j < n; j++)
+        memcpy (basis + j * dim, qv_mode_set_vector (modes, k + j), dim * sizeof (double));
+      /* blocks of the basis that the chosen operations do not yet tell
+       * apart: block[j] is the block of vector j */
+      gsize block[MAX_SET] = { 0 }, n_picked = 0;
+      gboolean changed = FALSE;
+      for (gsize o = 0; o < n_invol; o++)
         {
-          gssize op = -1;
-          for (gsize q = 0; q < g->order && op < 0; q++)
-            if (classes[q] == c)
-              op = (gssize) q;
-          const double *r = g->operations + 9 * op;
-          double r2[9];
-          for (int i = 0; i < 3; i++)
-            for (int j = 0; j < 3; j++)
-              r2[3 * i + j] = r[3 * i] * r[j] + r[3 * i + 1] * r[3 + j] + r[3 * i + 2] * r[6 + j];
-          gboolean involution = TRUE;
-          for (int i = 0; i < 9; i++)
-            involution &= fabs (r2[i] - (i % 4 == 0)) < 1e-6;
-          if (!involution)
+          const double *r = g->operations + 9 * invol[o];
+          gboolean ok = TRUE;
+          for (gsize p = 0; p < n_picked && ok; p++)
+            ok = commute (r, g->operations + 9 * picked[p]);
+          if (!ok)
             continue;
-          /* M_ij = l_iᵀ T l_j */
-          const gsize *perm = g->permutations + (gsize) op * na;
-          for (gsize j = 0; j < n; j++)
+          gboolean split = FALSE;
+          for (gsize b = 0; b < n; b++)
             {
-              const double *l = qv_mode_set_vector (modes, k + j);
-              memcpy (old + j * dim, l, dim * sizeof (double));
-              for (gsize a = 0; a < na; a++)
-                for (int i = 0; i < 3; i++)
-                  tl[j * dim + 3 * perm[a] + i] = r[3 * i] * l[3 * a] + r[3 * i + 1] * l[3 * a + 1]
-                                                  + r[3 * i + 2] * l[3 * a + 2];
-            }
-          double mm[9], v[9];
-          for (gsize i = 0; i < n; i++)
-            for (gsize j = 0; j < n; j++)
-              {
-                double s = 0, s2 = 0;
+              gsize members[MAX_SET], nb = 0;
+              for (gsize j = 0; j < n; j++)
+                if (block[j] == b)
+                  members[nb++] = j;
+              if (nb < 2)
+                continue;
+              /* M = Vᵀ T V on the block, symmetrised */
+              double mm[MAX_SET * MAX_SET], v[MAX_SET * MAX_SET], t[MAX_SET * MAX_SET];
+              for (gsize i = 0; i < nb; i++)
+                {
+                  apply_op (g, invol[o], basis + members[i] * dim, tv);
+                  for (gsize j = 0; j < nb; j++)
+                    {
+                      double sum = 0;
+                      for (gsize q = 0; q < dim; q++)
+                        sum += basis[members[j] * dim + q] * tv[q];
+                      t[j * nb + i] = sum;
+                    }
+                }
+              gboolean scalar = TRUE;
+              for (gsize i = 0; i < nb; i++)
+                for (gsize j = 0; j < nb; j++)
+                  {
+                    mm[i * nb + j] = 0.5 * (t[i * nb + j] + t[j * nb + i]);
+                    scalar &= fabs (mm[i * nb + j] - (i == j ? mm[0] : 0)) < 1e-6;
+                  }
+              if (scalar)
+                continue;
+              jacobi (mm, v, nb);
+              gsize idx[MAX_SET];
+              for (gsize i = 0; i < nb; i++)
+                idx[i] = i;
+              for (gsize i = 0; i < nb; i++)
+                for (gsize j = i + 1; j < nb; j++)
+                  if (mm[idx[j] * nb + idx[j]] > mm[idx[i] * nb + idx[i]] + 1e-9)
+                    {
+                      gsize tmp = idx[i]; idx[i] = idx[j]; idx[j] = tmp;
+                    }
+              g_autofree double *old = g_new (double, nb * dim);
+              for (gsize i = 0; i < nb; i++)
+                memcpy (old + i * dim, basis + members[i] * dim, dim * sizeof (double));
+              for (gsize i = 0; i < nb; i++)
                 for (gsize q = 0; q < dim; q++)
                   {
-                    s += old[i * dim + q] * tl[j * dim + q];
-                    s2 += old[j * dim + q] * tl[i * dim + q];
+                    double sum = 0;
+                    for (gsize j = 0; j < nb; j++)
+                      sum += old[j * dim + q] * v[j * nb + idx[i]];
+                    basis[members[i] * dim + q] = sum;
                   }
-                mm[i * n + j] = 0.5 * (s + s2);
-              }
-          gboolean scalar = TRUE;
-          for (gsize i = 0; i < n; i++)
-            for (gsize j = 0; j < n; j++)
-              scalar &= fabs (mm[i * n + j] - (i == j ? mm[0] : 0)) < 1e-6;
-          if (scalar)
-            continue;
-          jacobi (mm, v, n);
-          gsize idx[3] = { 0, 1, 2 };
-          for (gsize i = 0; i < n; i++)
-            for (gsize j = i + 1; j < n; j++)
-              if (mm[idx[j] * n + idx[j]] > mm[idx[i] * n + idx[i]] + 1e-9)
-                {
-                  gsize t = idx[i]; idx[i] = idx[j]; idx[j] = t;
-                }
-          for (gsize j = 0; j < n; j++)
-            {
-              double *l = modes->vectors + (k + j) * dim;
-              gsize big = 0;
-              for (gsize q = 0; q < dim; q++)
-                {
-                  double s = 0;
-                  for (gsize i = 0; i < n; i++)
-                    s += old[i * dim + q] * v[i * n + idx[j]];
-                  l[q] = s;
-                  if (fabs (l[q]) > fabs (l[big]) + 1e-9)
-                    big = q;
-                }
-              if (l[big] < 0)
-                for (gsize q = 0; q < dim; q++)
-                  l[q] = -l[q];
+              /* new blocks: vectors with the same eigenvalue stay together */
+              gsize next_block = 0;
+              for (gsize j = 0; j < n; j++)
+                next_block = MAX (next_block, block[j] + 1);
+              for (gsize i = 1; i < nb; i++)
+                if (fabs (mm[idx[i] * nb + idx[i]] - mm[idx[i - 1] * nb + idx[i - 1]]) > 1e-6)
+                  {
+                    for (gsize j = i; j < nb; j++)
+                      block[members[j]] = next_block;
+                    next_block++;
+                  }
+              split = TRUE;
             }
-          aligned++;
-          break;
+          if (split)
+            {
+              picked[n_picked++] = invol[o];
+              changed = TRUE;
+            }
         }
+      if (!changed)
+        continue;
+      for (gsize j = 0; j < n; j++)
+        {
+          double *l = modes->vectors + (k + j) * dim;
+          const double *b = basis + j * dim;
+          gsize big = 0;
+          for (gsize q = 0; q < dim; q++)
+            if (fabs (b[q]) > fabs (b[big]) + 1e-9)
+              big = q;
+          double sign = b[big] < 0 ? -1 : 1;
+          for (gsize q = 0; q < dim; q++)
+            l[q] = sign * b[q];
+        }
+      aligned++;
     }
   return aligned;
 }

@@ -47,12 +47,14 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvSymmetryReport, qv_symmetry_report_free)
 void qv_symmetry_mode_characters (const QvPointGroup *group, const QvModeSet *modes,
                                   gsize first, gsize n, double *chi);
 
-/* Rotates the basis of every degenerate set of @report (size 2 or 3, label
- * defined) so that it diagonalises the set's representation of the first
- * operation in the table's class order that is not a multiple of the
- * identity on the set, largest eigenvalue first: e.g. in C3v the first E
- * vector is symmetric, the second antisymmetric under σv(xz). Returns the
- * number of sets aligned. The vectors stay orthonormal. */
+/* Rotates the basis of every degenerate set of @report (label defined) so
+ * that it diagonalises a chain of commuting involutions (C2, σ, i) taken in
+ * the table's class order, each used where it is not a multiple of the
+ * identity on what the earlier ones left together, larger eigenvalue first:
+ * in C3v the first E vector is symmetric, the second antisymmetric under
+ * σv(xz); in Td a T2 set comes out along x, y, z (eigenvectors of C2(z),
+ * C2(x), C2(y)). Largest component made positive; the vectors stay
+ * orthonormal. Returns the number of sets changed. */
 gsize qv_symmetry_align_degenerate (const QvSymmetryReport *report, QvModeSet *modes);
 
 G_END_DECLS

@@ -919,6 +919,61 @@ test_align (void **state)
     assert_string_equal (again->modes[k].label, rep->modes[k].label);
 }
 
+/* Aligned CH4 sets: every T2 vector is an eigenvector (character ±1 on it
+ * alone) of the three C2 operations, each E vector of a σd; the vectors
+ * stay orthonormal and the species unchanged. */
+static void
+test_align_td (void **state)
+{
+  (void) state;
+  Model m = methane ();
+  g_autoptr(QvStructure) s = place (&m, 8, 0);
+  g_autoptr(QvPointGroup) g = qv_point_group_detect (s, 0, NULL);
+  g_autoptr(QvHessian) h = pair_hessian (s);
+  QvSolveOptions opt;
+  qv_solve_options_init (&opt);
+  g_autoptr(QvModeSet) modes = qvt_solve_checked (s, h, &opt);
+  g_autoptr(QvSymmetryReport) rep = qv_symmetry_report_new (g, modes);
+  assert_int_equal (qv_symmetry_align_degenerate (rep, modes), 3);   /* E, 2 T2 */
+  const QvCharacterTable *t = qv_character_table_lookup ("Td");
+  g_autofree gsize *classes = g_new (gsize, g->order);
+  assert_true (qv_character_table_classify (t, g, classes, NULL));
+  g_autofree double *chi = g_new (double, g->order);
+  gsize dim = 3 * s->n_atoms;
+  for (gsize k = 0; k < modes->n_modes; k++)
+    {
+      const QvModeSymmetry *ms = &rep->modes[k];
+      qv_symmetry_mode_characters (g, modes, k, 1, chi);
+      gsize n_sharp = 0, n_c2 = 0;
+      for (gsize q = 0; q < g->order; q++)
+        {
+          const char *tok = qv_character_table_class_token (t, classes[q]);
+          gboolean sharp = fabs (fabs (chi[q]) - 1) < 1e-8;
+          if (strcmp (ms->label, "T2") == 0 && strcmp (tok, "C2") == 0)
+            {
+              n_c2++;
+              assert_true (sharp);
+            }
+          if (strcmp (ms->label, "E") == 0 && strcmp (tok, "sd") == 0)
+            n_sharp += sharp;
+        }
+      if (strcmp (ms->label, "T2") == 0)
+        assert_int_equal (n_c2, 3);
+      if (strcmp (ms->label, "E") == 0)
+        assert_true (n_sharp >= 2);
+      for (gsize j = 0; j <= k; j++)
+        {
+          double d = 0;
+          for (gsize q = 0; q < dim; q++)
+            d += qv_mode_set_vector (modes, k)[q] * qv_mode_set_vector (modes, j)[q];
+          assert_true (fabs (d - (j == k)) < 1e-10);
+        }
+    }
+  g_autoptr(QvSymmetryReport) again = qv_symmetry_report_new (g, modes);
+  for (gsize k = 0; k < modes->n_modes; k++)
+    assert_string_equal (again->modes[k].label, rep->modes[k].label);
+}
+
 int
 main (void)
 {
@@ -956,6 +1011,7 @@ main (void)
     cmocka_unit_test (test_modes_d4h),
     cmocka_unit_test (test_symmetrize_hessian),
     cmocka_unit_test (test_align),
+    cmocka_unit_test (test_align_td),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
