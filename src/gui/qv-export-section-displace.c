@@ -34,6 +34,8 @@ struct _QvExportSectionDisplace
 
   QvExportContext context;
   gsize n_files;
+  gboolean kind_chosen;        /* the user picked the kind: keep it */
+  gboolean setting_kind;       /* the section picks it (no user choice) */
 };
 
 G_DEFINE_FINAL_TYPE (QvExportSectionDisplace, qv_export_section_displace, GTK_TYPE_WIDGET)
@@ -191,6 +193,24 @@ void
 qv_export_section_displace_set_context (QvExportSectionDisplace *self, const QvExportContext *context)
 {
   self->context = *context;
+  /* Until the user picks a kind, an imaginary mode gets the escape pair
+   * (its usual export) and a real one the ± pair. */
+  if (!self->kind_chosen && context->document && context->mode >= 0)
+    {
+      const gboolean imaginary = qv_mode_set_is_imaginary (qv_document_get_modes (context->document),
+                                                           (gsize) context->mode);
+      self->setting_kind = TRUE;
+      gtk_drop_down_set_selected (self->kind_drop, imaginary ? 4 : 0);
+      self->setting_kind = FALSE;
+    }
+  refresh (self);
+}
+
+static void
+kind_changed (QvExportSectionDisplace *self)
+{
+  if (!self->setting_kind)
+    self->kind_chosen = TRUE;
   refresh (self);
 }
 
@@ -285,7 +305,7 @@ qv_export_section_displace_init (QvExportSectionDisplace *self)
   gtk_check_button_set_active (self->default_check, TRUE);
   qv_export_writer_set_title (self->writer, _("Choose a Folder for the Displaced Structures"));
   qv_export_writer_set_prepare (self->writer, prepare, self);
-  g_signal_connect_object (self->kind_drop, "notify::selected", G_CALLBACK (refresh), self, G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->kind_drop, "notify::selected", G_CALLBACK (kind_changed), self, G_CONNECT_SWAPPED);
   g_signal_connect_object (self->unit_drop, "notify::selected", G_CALLBACK (refresh), self, G_CONNECT_SWAPPED);
   g_signal_connect_object (self->style_drop, "notify::selected", G_CALLBACK (refresh), self, G_CONNECT_SWAPPED);
   g_signal_connect_object (self->points_adjustment, "value-changed", G_CALLBACK (refresh), self,

@@ -311,6 +311,10 @@ test_escape_pair_of_imaginary_mode (void **state)
 
   assert_true (qv_mode_set_is_imaginary (qv_document_get_modes (qv_window_get_document (window)), 0));
   qv_mode_panel_select (qv_window_get_mode_panel (window), 0);
+  qvg_spin (0.05);
+  /* Before a kind is chosen, an imaginary mode is offered its escape pair. */
+  assert_int_equal (qv_export_section_displace_get_n_files (displace), 2);
+  assert_non_null (strstr (qv_export_section_displace_get_preview (displace), "escape"));
   qv_export_section_displace_set_kind (displace, QV_DISPLACE_PAIR);
   qv_export_section_displace_set_amplitude (displace, QV_AMPLITUDE_TURNING_POINT, 1.0);
   qvg_spin (0.05);
