@@ -483,6 +483,12 @@ qv_mode_panel_cell_text (QvModePanel *self, guint row, guint column)
   return item && column < N_COLUMNS ? format_cell (self, item, column) : NULL;
 }
 
+const char *
+qv_mode_panel_get_symmetry_summary (QvModePanel *self)
+{
+  return gtk_label_get_label (self->symmetry_label);
+}
+
 void
 qv_mode_panel_sort_by (QvModePanel *self, guint column, gboolean ascending)
 {

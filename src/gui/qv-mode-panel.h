@@ -27,6 +27,8 @@ GListModel *qv_mode_panel_get_rows (QvModePanel *self);
  * 3 turning point, 4 largest displacement, 5 symmetry species (shown after
  * the wavenumber). For tests. */
 char *qv_mode_panel_cell_text (QvModePanel *self, guint row, guint column);
+/* The summary's point-group line ("Point group C2v · symmetry number 2 …"). */
+const char *qv_mode_panel_get_symmetry_summary (QvModePanel *self);
 /* Sorts by @column (as above), ascending or not (as a header click would). */
 void qv_mode_panel_sort_by (QvModePanel *self, guint column, gboolean ascending);
 
