@@ -513,25 +513,19 @@ qv_cmd_spectrum (int argc, char **argv)
   modes = qv_cli_solve (&solve, argc == 2 ? argv[1] : NULL, &input, &error);
   if (modes == NULL)
     goto fail;
-  if (argc == 2 && qv_input_is_bundle (argv[1]))
-    {
-      /* the bundle's tensors (read again: the input keeps none) */
-      bundle = qv_bundle_read_file (argv[1], &error);
-      if (bundle == NULL)
-        goto fail;
-    }
   derivatives = qv_derivatives_new (input->structure->n_atoms);
-  if (bundle && bundle->derivatives)
+  if (input->derivatives)
     {
-      if (bundle->derivatives->dipole)
+      /* a bundle's tensors (the demo's are invented) */
+      if (input->derivatives->dipole)
         {
-          qv_derivatives_set_dipole (derivatives, bundle->derivatives->dipole, 1.0);
-          dipole_units_used = bundle->dipole_units;
+          qv_derivatives_set_dipole (derivatives, input->derivatives->dipole, 1.0);
+          dipole_units_used = input->dipole_units;
         }
-      if (bundle->derivatives->polarizability)
+      if (input->derivatives->polarizability)
         {
-          qv_derivatives_set_polarizability (derivatives, 6, bundle->derivatives->polarizability, 1.0);
-          alpha_units_used = bundle->polarizability_units;
+          qv_derivatives_set_polarizability (derivatives, 6, input->derivatives->polarizability, 1.0);
+          alpha_units_used = input->polarizability_units;
         }
     }
   if (dipole_file)

@@ -23,6 +23,9 @@ load_bundle (QvInput *input, QvBundle *bundle)
   input->structure = g_steal_pointer (&bundle->structure);
   input->mass_model = bundle->mass_model;
   input->view = bundle->view;
+  input->derivatives = g_steal_pointer (&bundle->derivatives);
+  input->dipole_units = g_steal_pointer (&bundle->dipole_units);
+  input->polarizability_units = g_steal_pointer (&bundle->polarizability_units);
   input->hessian = g_steal_pointer (&bundle->hessian);
   input->modes = g_steal_pointer (&bundle->modes);
   input->hessian_units = g_strdup (bundle->hessian_units);
@@ -163,5 +166,8 @@ qv_input_free (QvInput *input)
   qv_mode_set_free (input->modes);
   g_free (input->hessian_source);
   g_free (input->hessian_units);
+  qv_derivatives_free (input->derivatives);
+  g_free (input->dipole_units);
+  g_free (input->polarizability_units);
   g_free (input);
 }

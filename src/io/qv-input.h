@@ -24,6 +24,9 @@ typedef struct {
   QvMassModel mass_model;
   guint n_frames;               /* frames in the geometry file; the first is used */
   QvBundleView view;            /* a bundle's saved view (view.present) */
+  QvDerivatives *derivatives;   /* a bundle's derivative tensors, or NULL */
+  char *dipole_units;           /* as the bundle wrote them, or NULL */
+  char *polarizability_units;
 } QvInput;
 
 typedef struct {
