@@ -31,9 +31,6 @@ typedef struct {
   double *operations;          /* order × 9: R (row-major) acting on positions
                                   relative to @center, in the input frame;
                                   operation 0 is the identity */
-  char **op_names;             /* order: the table's class token of each
-                                  operation in the standard frame, e.g. "C3",
-                                  "sv", "S4^3", "i" (NULL-terminated) */
   gsize *permutations;         /* order × n_atoms: operation g carries atom a
                                   onto atom permutations[g * n_atoms + a] */
   guint symmetry_number;       /* σ: number of proper rotations (C∞v 1, D∞h 2) */
@@ -44,7 +41,17 @@ typedef struct {
 /* Finds the largest point group whose operations carry every atom within
  * @tolerance (Å, > 0; 0 picks QV_SYMMETRY_DEFAULT_TOLERANCE) of an atom of
  * the same element and mass. Fails with QV_ERROR_INPUT for periodic or empty
- * structures and non-finite positions, QV_ERROR_USAGE for a bad tolerance. */
+ * structures, a single atom and non-finite positions, QV_ERROR_USAGE for a
+ * bad tolerance.
+ *
+ * Standard orientation (@frame): z along the principal axis; x along the
+ * C2' axis with most atoms on it (Dn, Dnh, Dnd), in the σv plane with most
+ * atoms (Cnv, n ≥ 3), or normal to the mirror with most atoms (C2v: a planar
+ * molecule lies in yz); D2, D2h: a planar molecule has x normal to its
+ * plane and z along the in-plane axis with more atoms; Cs: z normal to the
+ * mirror; T, Td, Th along the C2 axes, O, Oh along the C4 axes, I, Ih along
+ * three perpendicular C2 axes with a C5 along (0, 1, φ); C1, Ci: principal
+ * axes of inertia; linear: z along the molecule. */
 QvPointGroup *qv_point_group_detect (const QvStructure *structure, double tolerance,
                                      GError **error);
 void qv_point_group_free (QvPointGroup *group);

@@ -331,6 +331,8 @@ check_group_sets (const Model *m, const char *name, guint sigma, gsize order, gs
       assert_int_equal (g->symmetry_number, sigma);
       assert_int_equal (g->order, order);
       assert_true (g->max_deviation < 1e-6);
+      for (int i = 0; i < 9; i++)        /* operation 0 is the identity */
+        assert_true (fabs (qv_point_group_operation (g, 0)[i] - (i % 4 == 0)) < 1e-12);
       /* every operation is orthogonal and carries the atoms onto their images */
       for (gsize k = 0; k < g->order; k++)
         {
