@@ -98,7 +98,7 @@ qv_symmetry_report_new (const QvPointGroup *g, const QvModeSet *modes)
     }
   g_autofree double *chi = g_new (double, g->order);
   g_autofree double *mult = rep->table ? g_new (double, qv_character_table_n_irreps (rep->table)) : NULL;
-  gsize n_unknown = 0, first_unknown = 0;
+  gsize n_unknown = 0, first_unknown = 0, n_cut = 0;
   for (gsize k = 0; k < modes->n_modes;)
     {
       QvModeSymmetry *m = &rep->modes[k];
@@ -131,7 +131,12 @@ qv_symmetry_report_new (const QvPointGroup *g, const QvModeSet *modes)
           m->size = 1;
           if (rep->table)
             {
-              if (n_unknown++ == 0)
+              /* with only the lowest modes solved, a set may run past the end */
+              double nu = qv_mode_set_wavenumber (modes, k);
+              double last = qv_mode_set_wavenumber (modes, modes->n_modes - 1);
+              if (modes->lowest_only && fabs (last - nu) <= MAX (1.0, 2e-3 * fabs (nu)))
+                n_cut++;
+              else if (n_unknown++ == 0)
                 first_unknown = k;
             }
           k++;
@@ -142,6 +147,10 @@ qv_symmetry_report_new (const QvPointGroup *g, const QvModeSet *modes)
       "symmetry: %" G_GSIZE_FORMAT " mode(s) (the first: mode %" G_GSIZE_FORMAT ") have no whole "
       "species of %s: the Hessian's symmetry is broken beyond the geometry's tolerance of %g Å; "
       "--symmetrize averages it over the group", n_unknown, first_unknown + 1, g->name, g->tolerance));
+  if (n_cut)
+    g_ptr_array_add (warn, g_strdup_printf (
+      "symmetry: the last %" G_GSIZE_FORMAT " mode(s) may be part of a degenerate set that the "
+      "lowest-modes solve cut off; ask for a few more modes to label them", n_cut));
   g_ptr_array_add (warn, NULL);
   rep->warnings = (char **) g_ptr_array_free (warn, FALSE);
   return rep;

@@ -15,7 +15,8 @@
 # - Γvib = 2A1 + 2E for C3v and Σg+ + Σu+ + Πu for D∞h (hand reductions in
 #   tests/unit/test-point-group.c); σ = 3 and 2 (common practice).
 # - Text "sym" column, `table --columns ...,symmetry`, --symmetrize on a
-#   Hessian with broken symmetry, and a bad --symmetry-tolerance (exit 1).
+#   Hessian with broken symmetry, --lowest cutting a degenerate set, and a
+#   bad --symmetry-tolerance (exit 1).
 # SPDX-License-Identifier: GPL-3.0-or-later
 import os
 import sys
@@ -144,6 +145,14 @@ with q.tmpdir() as tmp:
     d3 = q.modes_json([xyz2, "--hessian", hes2, "--hessian-units", "eV/A^2", "--symmetrize"])
     chk.ok(sorted(m["symmetry"]["label"] for m in d3["modes"]) == sorted(labels),
            "--symmetrize: every species back")
+    # --lowest may cut a degenerate set: "?" with its own warning, not "broken"
+    lab = {}
+    for k in (2, 3):
+        d = q.modes_json([xyz, "--hessian", hes, "--hessian-units", "eV/A^2", "--lowest", str(k)])
+        lab[k] = ([m["symmetry"]["label"] for m in d["modes"]], d["point_group"]["warnings"])
+    chk.ok(lab[2][0][-1] == "?" and any("cut off" in w for w in lab[2][1])
+           and not any("broken" in w for w in lab[2][1]), "--lowest 2 cuts an E: %r" % (lab[2],))
+    chk.ok("?" not in lab[3][0] and lab[3][1] == [], "--lowest 3 keeps whole sets: %r" % (lab[3],))
     # a looser tolerance is reported; a bad one is a usage error
     d4 = q.modes_json([xyz, "--hessian", hes, "--hessian-units", "eV/A^2", "--symmetry-tolerance", "0.05"])
     chk.ok(abs(d4["point_group"]["tolerance"] - 0.05) < 1e-12, "tolerance reported")
