@@ -15,6 +15,7 @@ struct _QvSpectrumView
   GtkDropDown *shape_dropdown;
   GtkDrawingArea *area;
   GtkLabel *none_label;
+  GtkLabel *hint_label;
 
   QvDocument *document;
   QvSpectrumKind kinds[3];       /* the dropdown's entries */
@@ -107,8 +108,12 @@ rebuild (QvSpectrumView *self)
   so.shape = self->shape;
   so.fwhm = self->fwhm;
   self->spectrum = qv_spectrum_new (in->n_modes, pos, height, mode, &so, &error);
-  if (self->spectrum == NULL)
-    g_warning ("spectrum: %s", error->message);
+  /* A width the core refuses says why where the hint is; the controls stay. */
+  gtk_label_set_label (self->hint_label, self->spectrum ? _("Click a peak to select its mode") : error->message);
+  if (self->spectrum)
+    gtk_widget_remove_css_class (GTK_WIDGET (self->hint_label), "error");
+  else
+    gtk_widget_add_css_class (GTK_WIDGET (self->hint_label), "error");
   gtk_widget_queue_draw (GTK_WIDGET (self->area));
 }
 
@@ -365,6 +370,7 @@ qv_spectrum_view_class_init (QvSpectrumViewClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvSpectrumView, shape_dropdown);
   gtk_widget_class_bind_template_child (widget_class, QvSpectrumView, area);
   gtk_widget_class_bind_template_child (widget_class, QvSpectrumView, none_label);
+  gtk_widget_class_bind_template_child (widget_class, QvSpectrumView, hint_label);
 }
 
 static void
