@@ -1,5 +1,6 @@
 /* qv-band-path.c — band paths, sampling, branch connection.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <cblas.h>
 #include <errno.h>
 #include <math.h>
 #include <string.h>
@@ -580,29 +581,68 @@ qv_band_connect (const QvPhononSet *set, const gboolean *restart, guint *order)
   gsize nb = set->n_branches;
   g_autofree double *cost = g_new (double, nb * nb);
   g_autofree gsize *assign = g_new (gsize, nb);
+  g_autofree gboolean *taken = g_new (gboolean, nb);
+  g_autofree double _Complex *prev = g_new (double _Complex, nb * nb);
+  g_autofree double _Complex *overlap = g_new (double _Complex, nb * nb);
+  const double _Complex one = 1, zero = 0;
 
   g_return_if_fail (set->eigenvectors != NULL);
   for (gsize k = 0; k < set->n_q; k++)
     {
+      gboolean simple = TRUE;
       if (k == 0 || (restart && restart[k]))
         {
           for (gsize b = 0; b < nb; b++)
             order[k * nb + b] = (guint) b;
           continue;
         }
+      /* the previous q's vectors in branch order, then O = Pᴴ E (zgemm):
+       * O[b, j] = ⟨e_b(q_{k−1}) | e_j(q_k)⟩ */
       for (gsize b = 0; b < nb; b++)
+        memcpy (prev + b * nb, set->eigenvectors + ((k - 1) * nb + order[(k - 1) * nb + b]) * nb,
+                nb * sizeof *prev);
+      cblas_zgemm (CblasColMajor, CblasConjTrans, CblasNoTrans, (blasint) nb, (blasint) nb,
+                   (blasint) nb, &one, prev, (blasint) nb, set->eigenvectors + k * nb * nb,
+                   (blasint) nb, &zero, overlap, (blasint) nb);
+      /* |O|² is doubly stochastic (both bases are orthonormal): when every
+       * branch has one mode with |O|² > ½, those modes are distinct and the
+       * assignment is the unique optimum (any other permutation replaces an
+       * entry > ½ by one < ½ in each row it changes), so Kuhn–Munkres is
+       * only needed otherwise */
+      memset (taken, 0, nb * sizeof *taken);
+      for (gsize b = 0; b < nb && simple; b++)
         {
-          const double _Complex *e0 = set->eigenvectors + ((k - 1) * nb + order[(k - 1) * nb + b]) * nb;
+          gsize best = 0;
+          double bestv = -1;
           for (gsize j = 0; j < nb; j++)
             {
-              const double _Complex *e1 = set->eigenvectors + (k * nb + j) * nb;
-              double _Complex s = 0;
-              for (gsize r = 0; r < nb; r++)
-                s += conj (e0[r]) * e1[r];
-              cost[b * nb + j] = 1.0 - (creal (s) * creal (s) + cimag (s) * cimag (s));
+              double _Complex o = overlap[b + j * nb];
+              double v = creal (o) * creal (o) + cimag (o) * cimag (o);
+              cost[b * nb + j] = 1.0 - v;
+              if (v > bestv)
+                {
+                  bestv = v;
+                  best = j;
+                }
             }
+          if (bestv > 0.5 && !taken[best])
+            {
+              taken[best] = TRUE;
+              assign[b] = best;
+            }
+          else
+            simple = FALSE;
         }
-      hungarian (nb, cost, assign);
+      if (!simple)
+        {
+          for (gsize b = 0; b < nb; b++)
+            for (gsize j = 0; j < nb; j++)
+              {
+                double _Complex o = overlap[b + j * nb];
+                cost[b * nb + j] = 1.0 - (creal (o) * creal (o) + cimag (o) * cimag (o));
+              }
+          hungarian (nb, cost, assign);
+        }
       for (gsize b = 0; b < nb; b++)
         order[k * nb + b] = (guint) assign[b];
     }

@@ -36,30 +36,50 @@ void
 qv_dynamical_matrix_build (const QvForceConstants *fc, const double q[3], double _Complex *d)
 {
   gsize n = qv_force_constants_n_sites (fc), nb = 3 * n, nc = qv_force_constants_n_cells (fc);
-  const double *m = qv_force_constants_masses (fc);
+  const double *m = qv_force_constants_masses (fc), *tau = qv_force_constants_positions (fc);
+  int nmax = qv_force_constants_max_translation (fc), width = 2 * nmax + 1;
   double qc[3];
+  /* e^{iq·(n·a + τ_κ' − τ_κ)} = Π_j z_j^{n_j} · s_κ' · conj(s_κ), with
+   * z_j = e^{2πi q_j} and s_κ = e^{iq·τ_κ}: tables instead of a sine and
+   * a cosine per image */
+  double _Complex *table = g_new (double _Complex, 3 * (gsize) width);
+  double _Complex *site = g_new (double _Complex, n);
 
   qv_dynamical_matrix_cartesian_q (qv_force_constants_cell (fc), q, qc);
+  for (int j = 0; j < 3; j++)
+    for (int k = -nmax; k <= nmax; k++)
+      {
+        double x = 2 * G_PI * q[j] * k;
+        table[j * width + k + nmax] = cos (x) + I * sin (x);
+      }
+  for (gsize k = 0; k < n; k++)
+    {
+      double x = qc[0] * tau[3 * k] + qc[1] * tau[3 * k + 1] + qc[2] * tau[3 * k + 2];
+      site[k] = cos (x) + I * sin (x);
+    }
   memset (d, 0, nb * nb * sizeof *d);
   for (gsize c = 0; c < nc; c++)
     for (gsize k = 0; k < n; k++)
       for (gsize k2 = 0; k2 < n; k2++)
         {
           gsize n_images;
-          const QvLatticeImage *im = qv_force_constants_images (fc, c, k, k2, &n_images);
-          const double *blk = qv_force_constants_block (fc, c, k, k2);
+          const QvLatticeImage *im;
+          const double *blk;
           double _Complex phase = 0;
-          double s = 1.0 / sqrt (m[k] * m[k2]);
+          if (qv_force_constants_block_is_zero (fc, c, k, k2))
+            continue;
+          im = qv_force_constants_images (fc, c, k, k2, &n_images);
+          blk = qv_force_constants_block (fc, c, k, k2);
           for (gsize i = 0; i < n_images; i++)
-            {
-              double x = qc[0] * im[i].r[0] + qc[1] * im[i].r[1] + qc[2] * im[i].r[2];
-              phase += im[i].weight * (cos (x) + I * sin (x));
-            }
-          phase *= s;
+            phase += im[i].weight * table[im[i].n[0] + nmax] * table[width + im[i].n[1] + nmax]
+                                  * table[2 * width + im[i].n[2] + nmax];
+          phase *= site[k2] * conj (site[k]) / sqrt (m[k] * m[k2]);
           for (int a = 0; a < 3; a++)
             for (int b = 0; b < 3; b++)
               d[(3 * k + a) + (3 * k2 + b) * nb] += blk[3 * a + b] * phase;
         }
+  g_free (table);
+  g_free (site);
   for (gsize r = 0; r < nb; r++)
     {
       d[r + r * nb] = creal (d[r + r * nb]);
@@ -84,17 +104,71 @@ typedef struct {
   GError *error;        /* first failure, under lock */
 } Job;
 
+/* One worker's LAPACK buffers, sized once from the workspace query. Every
+ * buffer handed to zheevd is padded: OpenBLAS 0.3.21's zgemv kernels
+ * (inside zhetrd/zlatrd) were seen under valgrind to read up to a few
+ * vector widths past the end of the arrays they are given (the eigenvalue
+ * array among them), which crashed once a buffer ended at a page boundary. */
+#define PAD 256
+
+typedef struct {
+  gsize nb;
+  double _Complex *d, *work;
+  double *w, *rwork;
+  lapack_int *iwork, lwork, lrwork, liwork;
+} Workspace;
+
 static gboolean
-solve_one (Job *job, gsize k, double _Complex *d, GError **error)
+workspace_init (Workspace *ws, gsize nb, gboolean vectors, GError **error)
+{
+  double _Complex qwork = 0;
+  double qrwork = 0;
+  lapack_int qiwork = 0, info;
+  char job = vectors ? 'V' : 'N';
+
+  memset (ws, 0, sizeof *ws);
+  ws->nb = nb;
+  ws->d = g_new0 (double _Complex, nb * nb + PAD);
+  ws->w = g_new0 (double, nb + PAD);
+  info = LAPACKE_zheevd_work (LAPACK_COL_MAJOR, job, 'U', (lapack_int) nb, ws->d, (lapack_int) nb,
+                              ws->w, &qwork, -1, &qrwork, -1, &qiwork, -1);
+  if (info != 0)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_SOLVER, "LAPACK zheevd workspace query failed (info %d)",
+                   (int) info);
+      return FALSE;
+    }
+  ws->lwork = MAX ((lapack_int) creal (qwork), (lapack_int) (2 * nb + (vectors ? nb * nb : 0)));
+  ws->lrwork = MAX ((lapack_int) qrwork, (lapack_int) (vectors ? 1 + 5 * nb + 2 * nb * nb : nb));
+  ws->liwork = MAX (qiwork, (lapack_int) (vectors ? 3 + 5 * nb : 1));
+  ws->work = g_new0 (double _Complex, (gsize) ws->lwork + PAD);
+  ws->rwork = g_new0 (double, (gsize) ws->lrwork + PAD);
+  ws->iwork = g_new0 (lapack_int, (gsize) ws->liwork + PAD);
+  return TRUE;
+}
+
+static void
+workspace_clear (Workspace *ws)
+{
+  g_free (ws->d);
+  g_free (ws->w);
+  g_free (ws->work);
+  g_free (ws->rwork);
+  g_free (ws->iwork);
+}
+
+static gboolean
+solve_one (Job *job, gsize k, Workspace *ws, GError **error)
 {
   QvPhononSet *set = job->set;
   gsize nb = set->n_branches;
-  double *w = set->eigenvalues + k * nb;
+  double _Complex *d = ws->d;
   lapack_int info;
 
   qv_dynamical_matrix_build (job->fc, job->q + 3 * k, d);
-  info = LAPACKE_zheevd (LAPACK_COL_MAJOR, set->eigenvectors ? 'V' : 'N', 'U',
-                         (lapack_int) nb, d, (lapack_int) nb, w);
+  info = LAPACKE_zheevd_work (LAPACK_COL_MAJOR, set->eigenvectors ? 'V' : 'N', 'U',
+                              (lapack_int) nb, d, (lapack_int) nb, ws->w, ws->work, ws->lwork,
+                              ws->rwork, ws->lrwork, ws->iwork, ws->liwork);
   if (info != 0)
     {
       g_set_error (error, QV_ERROR, QV_ERROR_SOLVER,
@@ -102,8 +176,9 @@ solve_one (Job *job, gsize k, double _Complex *d, GError **error)
                    job->q[3 * k], job->q[3 * k + 1], job->q[3 * k + 2]);
       return FALSE;
     }
+  memcpy (set->eigenvalues + k * nb, ws->w, nb * sizeof (double));
   for (gsize b = 0; b < nb; b++)
-    set->wavenumbers[k * nb + b] = qv_wavenumber_from_eigenvalue (w[b]);
+    set->wavenumbers[k * nb + b] = qv_wavenumber_from_eigenvalue (ws->w[b]);
   if (set->eigenvectors)
     for (gsize b = 0; b < nb; b++)
       {
@@ -121,32 +196,39 @@ solve_one (Job *job, gsize k, double _Complex *d, GError **error)
 }
 
 static void
+fail_job (Job *job, GError *error)
+{
+  g_mutex_lock (&job->lock);
+  if (job->error == NULL)
+    job->error = error;
+  else
+    g_error_free (error);
+  g_mutex_unlock (&job->lock);
+  g_atomic_int_set (&job->cancelled, 1);
+}
+
+static void
 worker (gpointer data, gpointer user_data)
 {
   Job *job = user_data;
   gsize start = GPOINTER_TO_SIZE (data) - 1, end = MIN (start + job->chunk, job->set->n_q);
-  gsize nb = job->set->n_branches;
-  double _Complex *d = g_new (double _Complex, nb * nb);
+  Workspace ws;
+  GError *error = NULL;
+  gboolean ready = workspace_init (&ws, job->set->n_branches, job->set->eigenvectors != NULL, &error);
 
+  if (!ready)
+    fail_job (job, error);
   for (gsize k = start; k < end; k++)
     {
-      GError *error = NULL;
-      if (!g_atomic_int_get (&job->cancelled) && !solve_one (job, k, d, &error))
-        {
-          g_mutex_lock (&job->lock);
-          if (job->error == NULL)
-            job->error = error;
-          else
-            g_error_free (error);
-          g_mutex_unlock (&job->lock);
-          g_atomic_int_set (&job->cancelled, 1);
-        }
+      error = NULL;
+      if (ready && !g_atomic_int_get (&job->cancelled) && !solve_one (job, k, &ws, &error))
+        fail_job (job, error);
       g_mutex_lock (&job->lock);
       job->done++;
       g_cond_signal (&job->cond);
       g_mutex_unlock (&job->lock);
     }
-  g_free (d);
+  workspace_clear (&ws);
 }
 
 QvPhononSet *

@@ -3,6 +3,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <lapacke.h>
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
 #include "qv-error.h"
 #include "qv-force-constants.h"
@@ -17,6 +18,7 @@ struct _QvForceConstants {
   gsize *image_start;         /* n_cells n n + 1 */
   QvLatticeImage *images;
   double asymmetry, periodicity;
+  int max_translation;
 };
 
 static gsize
@@ -59,6 +61,22 @@ qv_force_constants_block (const QvForceConstants *fc, gsize cell, gsize k, gsize
 {
   g_return_val_if_fail (cell < fc->n_cells && k < fc->n && k2 < fc->n, NULL);
   return fc->phi + 9 * block_index (fc, cell, k, k2);
+}
+
+gboolean
+qv_force_constants_block_is_zero (const QvForceConstants *fc, gsize cell, gsize k, gsize k2)
+{
+  const double *b = qv_force_constants_block (fc, cell, k, k2);
+  for (int e = 0; e < 9; e++)
+    if (b[e] != 0)
+      return FALSE;
+  return TRUE;
+}
+
+int
+qv_force_constants_max_translation (const QvForceConstants *fc)
+{
+  return fc->max_translation;
 }
 
 const QvLatticeImage *
@@ -211,6 +229,30 @@ qv_force_constants_new (const QvSupercellMap *map, const QvHessian *hessian, GEr
           ws_images (map->reduced, d0, images);
         }
   fc->image_start[n * n * map->n_cells] = images->len;
+  /* the integer lattice vector of every image: r − (τ_κ' − τ_κ) in
+   * primitive coordinates */
+  {
+    double b[3][3];
+    qv_lattice_reciprocal (fc->cell, b);
+    for (gsize c = 0; c < map->n_cells; c++)
+      for (gsize k = 0; k < n; k++)
+        for (gsize k2 = 0; k2 < n; k2++)
+          {
+            gsize blk = block_index (fc, c, k, k2);
+            for (gsize i = fc->image_start[blk]; i < fc->image_start[blk + 1]; i++)
+              {
+                QvLatticeImage *im = &g_array_index (images, QvLatticeImage, i);
+                double t[3];
+                for (int x = 0; x < 3; x++)
+                  t[x] = im->r[x] - fc->positions[3 * k2 + x] + fc->positions[3 * k + x];
+                for (int j = 0; j < 3; j++)
+                  {
+                    im->n[j] = (int) lround (dot3 (t, b[j]) / (2 * G_PI));
+                    fc->max_translation = MAX (fc->max_translation, abs (im->n[j]));
+                  }
+              }
+          }
+  }
   fc->images = (QvLatticeImage *) g_array_free (g_steal_pointer (&images), FALSE);
   return g_steal_pointer (&fc);
 }

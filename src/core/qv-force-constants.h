@@ -18,6 +18,8 @@ typedef struct _QvForceConstants QvForceConstants;
  * vector), Cartesian Å, and its weight 1/(number of equidistant images). */
 typedef struct {
   double r[3];
+  int n[3];         /* R_l + T in primitive lattice vectors (integers), so that
+                       r = n·a + τ_κ' − τ_κ */
   double weight;
 } QvLatticeImage;
 
@@ -47,6 +49,12 @@ const double *qv_force_constants_block (const QvForceConstants *fc, gsize cell,
  * QV_WS_TOLERANCE (relative) of the shortest, each with weight 1/count. */
 const QvLatticeImage *qv_force_constants_images (const QvForceConstants *fc, gsize cell,
                                                  gsize kappa, gsize kappa2, gsize *n_images);
+
+/* TRUE when every element of Φ_{κ·,κ'·}(L_cell) is zero (D(q) skips it). */
+gboolean qv_force_constants_block_is_zero (const QvForceConstants *fc, gsize cell,
+                                           gsize kappa, gsize kappa2);
+/* The largest |n_j| of any image, for tables of lattice phases. */
+int qv_force_constants_max_translation (const QvForceConstants *fc);
 
 /* max|H − Hᵀ| / max|H| of the Hessian as given. */
 double qv_force_constants_asymmetry (const QvForceConstants *fc);
