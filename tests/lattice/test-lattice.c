@@ -694,6 +694,85 @@ test_eigenvector_phase (void **state)
     assert_close (set->wavenumbers[6 + b], set->wavenumbers[b], 1e-8, "periodic in q");
 }
 
+static void
+test_assignment (void **state)
+{
+  /* Branch connection is the one-to-one assignment of largest total
+   * overlap: checked against all 5! permutations (the definition) for
+   * unitary bases mixed so strongly that no row has an overlap above ½,
+   * which is where Kuhn–Munkres (not the shortcut) decides. */
+  enum { NB = 5 };
+  QvPhononSet set = { 0 };
+  double _Complex vec[2 * NB * NB];
+  guint order[2 * NB];
+  g_autoptr(GRand) rand = g_rand_new_with_seed (3);
+  int hard = 0;
+
+  set.n_q = 2;
+  set.n_branches = NB;
+  set.eigenvectors = vec;
+  for (int trial = 0; trial < 20; trial++)
+    {
+      double best = -1, got = 0;
+      int perm[NB] = { 0, 1, 2, 3, 4 };
+      /* q0: the unit vectors; q1: Gram–Schmidt of random complex vectors */
+      memset (vec, 0, sizeof vec);
+      for (int b = 0; b < NB; b++)
+        vec[b * NB + b] = 1;
+      for (int b = 0; b < NB; b++)
+        {
+          double _Complex *v = vec + NB * NB + b * NB;
+          for (int r = 0; r < NB; r++)
+            v[r] = g_rand_double_range (rand, -1, 1) + I * g_rand_double_range (rand, -1, 1);
+          for (int c = 0; c < b; c++)
+            {
+              double _Complex *u = vec + NB * NB + c * NB, s = 0;
+              for (int r = 0; r < NB; r++)
+                s += conj (u[r]) * v[r];
+              for (int r = 0; r < NB; r++)
+                v[r] -= s * u[r];
+            }
+          double norm = 0;
+          for (int r = 0; r < NB; r++)
+            norm += creal (v[r] * conj (v[r]));
+          for (int r = 0; r < NB; r++)
+            v[r] /= sqrt (norm);
+        }
+      qv_band_connect (&set, NULL, order);
+      for (int b = 0; b < NB; b++)
+        {
+          double top = 0;
+          got += pow (cabs (vec[NB * NB + order[NB + b] * NB + b]), 2);
+          for (int j = 0; j < NB; j++)
+            top = MAX (top, pow (cabs (vec[NB * NB + j * NB + b]), 2));
+          hard += top <= 0.5;
+        }
+      /* Heap's algorithm over all permutations */
+      {
+        int c[NB] = { 0 }, i = 0;
+        for (;;)
+          {
+            double total = 0;
+            for (int b = 0; b < NB; b++)
+              total += pow (cabs (vec[NB * NB + perm[b] * NB + b]), 2);
+            best = MAX (best, total);
+            while (i < NB && c[i] >= i)
+              c[i++] = 0;
+            if (i >= NB)
+              break;
+            int j = (i % 2) ? c[i] : 0, t = perm[j];
+            perm[j] = perm[i];
+            perm[i] = t;
+            c[i]++;
+            i = 0;
+          }
+      }
+      assert_close (got, best, 1e-12, "assignment of largest total overlap");
+    }
+  /* the random bases did reach the Kuhn–Munkres branch */
+  assert_true (hard > 10);
+}
+
 int
 main (void)
 {
@@ -708,6 +787,7 @@ main (void)
     cmocka_unit_test (test_crossing),
     cmocka_unit_test (test_paths),
     cmocka_unit_test (test_eigenvector_phase),
+    cmocka_unit_test (test_assignment),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }

@@ -202,6 +202,16 @@ def main():
             doc = json.loads(p.stdout)
             check(doc["lattice"] == "cP", "default path for simple cubic: %s" % doc["lattice"])
             compare(doc, "shuffled, default path")
+            # ascending order instead of the overlap connection: the same
+            # spectra, each q sorted
+            p2 = run([prim, "-S", sc_xyz, "-H", hess_npy, "-u", "eV/A^2", "--points", "120", "-f", "json",
+                      "--connect", "sort", "--threads", "1"])
+            if p2.returncode == 0:
+                sorted_doc = json.loads(p2.stdout)
+                a = np.array([pt["wavenumbers"] for pt in sorted_doc["points"]])
+                b = np.sort(np.array([pt["wavenumbers"] for pt in doc["points"]]), axis=1)
+                check(np.all(np.diff(a, axis=1) >= 0), "--connect sort is ascending")
+                check(np.max(np.abs(a - b)) < 1e-9, "--connect sort vs overlap: %.3g" % np.max(np.abs(a - b)))
             acoustic = doc["gamma_acoustic_before_sum_rule"]
             check(max(abs(x) for x in acoustic) < 1e-3, "acoustic before the sum rule %s" % acoustic)
 
