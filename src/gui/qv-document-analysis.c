@@ -103,6 +103,32 @@ qv_document_analysis_free (QvDocumentAnalysis *a)
   g_free (a);
 }
 
+char *
+qv_document_analysis_display (const char *name)
+{
+  static const struct { const char *ascii, *shown; } words[] = {
+    { "inf", "∞" }, { "Sigma_", "Σ" }, { "Sigma", "Σ" }, { "Pi_", "Π" }, { "Pi", "Π" },
+    { "Delta_", "Δ" }, { "Delta", "Δ" }, { "Phi_", "Φ" }, { "Phi", "Φ" },
+  };
+  GString *out = g_string_new (NULL);
+
+  for (const char *p = name; p && *p;)
+    {
+      gsize i;
+      for (i = 0; i < G_N_ELEMENTS (words); i++)
+        if (g_str_has_prefix (p, words[i].ascii))
+          break;
+      if (i < G_N_ELEMENTS (words))
+        {
+          g_string_append (out, words[i].shown);
+          p += strlen (words[i].ascii);
+        }
+      else
+        g_string_append_c (out, *p++);
+    }
+  return g_string_free (out, FALSE);
+}
+
 const char *
 qv_document_analysis_label (const QvDocumentAnalysis *a, gsize k)
 {

@@ -50,6 +50,10 @@ QvDerivatives *qv_document_analysis_read_derivatives (const char *path);
 /* A copy of @analysis's tensors for the next solve, or NULL. */
 QvDerivatives *qv_document_analysis_copy_derivatives (const QvDocumentAnalysis *analysis);
 
+/* The core's ASCII names as a reader writes them: "Cinfv" → "C∞v",
+ * "Dinfh" → "D∞h", "Sigma_g+" → "Σg+", "Pi_u" → "Πu" (newly allocated). */
+char *qv_document_analysis_display (const char *name);
+
 /* Mode @k's species ("A1", "E2g", "?" when broken; NULL without a group). */
 const char *qv_document_analysis_label (const QvDocumentAnalysis *analysis, gsize k);
 /* A key that sorts modes by species in the character table's order (the

@@ -191,10 +191,10 @@ worker_restore_priority (int before)
 static void
 qv_document_row_set_symmetry (QvModeRow *row, const QvDocumentAnalysis *analysis, gsize k)
 {
-  const char *label = qv_document_analysis_label (analysis, k);
+  g_autofree char *label = qv_document_analysis_display (qv_document_analysis_label (analysis, k));
 
   row->symmetry_order = qv_document_analysis_label_order (analysis, k);
-  if (label == NULL)
+  if (label == NULL || label[0] == '\0')
     row->symmetry[0] = '\0';
   else if (strlen (label) < sizeof row->symmetry)
     g_strlcpy (row->symmetry, label, sizeof row->symmetry);

@@ -41,6 +41,8 @@ show_symmetry (QvModeDetail *self, const QvDocumentAnalysis *a, gsize k)
   const QvModeSymmetry *sym = a && a->symmetry && k < a->symmetry->n_modes ? &a->symmetry->modes[k] : NULL;
   g_autofree char *species = NULL;
   g_autofree char *text = NULL;
+  g_autofree char *group = NULL;
+  g_autofree char *label = NULL;
 
   gtk_widget_set_visible (GTK_WIDGET (self->symmetry_label), a != NULL);
   if (a == NULL)
@@ -52,19 +54,21 @@ show_symmetry (QvModeDetail *self, const QvDocumentAnalysis *a, gsize k)
       gtk_label_set_label (self->symmetry_label, text);
       return;
     }
+  group = qv_document_analysis_display (a->group->name);
+  label = qv_document_analysis_display (sym->label);
   if (!sym->defined)
     {
       text = g_strdup_printf (_("Species ? in %s: the mode's symmetry is broken beyond the tolerance"),
-                              a->group->name);
+                              group);
       gtk_label_set_label (self->symmetry_label, text);
       return;
     }
   species = sym->size > 1
             /* TRANSLATORS: "E (modes 4–5)": a degenerate set */
-            ? g_strdup_printf (_("%s (modes %zu–%zu)"), sym->label, sym->first + 1, sym->first + sym->size)
-            : g_strdup (sym->label);
+            ? g_strdup_printf (_("%s (modes %zu–%zu)"), label, sym->first + 1, sym->first + sym->size)
+            : g_strdup (label);
   /* TRANSLATORS: "Species A1 in C2v · IR active · Raman active" */
-  text = g_strdup_printf (_("Species %s in %s · %s · %s"), species, a->group->name,
+  text = g_strdup_printf (_("Species %s in %s · %s · %s"), species, group,
                           sym->ir_active ? _("IR active") : _("IR inactive"),
                           sym->raman_active ? _("Raman active") : _("Raman inactive"));
   gtk_label_set_label (self->symmetry_label, text);

@@ -228,8 +228,9 @@ update_symmetry (QvModePanel *self)
       for (gsize k = 0; a->symmetry && k < a->symmetry->n_modes; k++)
         broken += !a->symmetry->modes[k].defined;
       /* TRANSLATORS: "Point group C2v · symmetry number 2 · tolerance 0.01 Å" */
+      g_autofree char *name = qv_document_analysis_display (a->group->name);
       text = g_strdup_printf (_("Point group %s · symmetry number %u · tolerance %g Å"),
-                              a->group->name, a->group->symmetry_number, a->group->tolerance);
+                              name, a->group->symmetry_number, a->group->tolerance);
       if (broken && a->symmetry->table)
         {
           g_autofree char *head = g_steal_pointer (&text);
