@@ -575,6 +575,8 @@ hungarian (gsize n, const double *cost, gsize *assign)
   g_free (u); g_free (v); g_free (minv); g_free (p); g_free (way); g_free (used);
 }
 
+#define WINDOW 8
+
 void
 qv_band_connect (const QvPhononSet *set, const gboolean *restart, guint *order)
 {
@@ -596,42 +598,46 @@ qv_band_connect (const QvPhononSet *set, const gboolean *restart, guint *order)
             order[k * nb + b] = (guint) b;
           continue;
         }
-      /* the previous q's vectors in branch order, then O = Pᴴ E (zgemm):
-       * O[b, j] = ⟨e_b(q_{k−1}) | e_j(q_k)⟩ */
-      for (gsize b = 0; b < nb; b++)
-        memcpy (prev + b * nb, set->eigenvectors + ((k - 1) * nb + order[(k - 1) * nb + b]) * nb,
-                nb * sizeof *prev);
-      cblas_zgemm (CblasColMajor, CblasConjTrans, CblasNoTrans, (blasint) nb, (blasint) nb,
-                   (blasint) nb, &one, prev, (blasint) nb, set->eigenvectors + k * nb * nb,
-                   (blasint) nb, &zero, overlap, (blasint) nb);
-      /* |O|² is doubly stochastic (both bases are orthonormal): when every
-       * branch has one mode with |O|² > ½, those modes are distinct and the
-       * assignment is the unique optimum (any other permutation replaces an
-       * entry > ½ by one < ½ in each row it changes), so Kuhn–Munkres is
-       * only needed otherwise */
+      /* |⟨e_b(q_{k−1}) | e_j(q_k)⟩|² is doubly stochastic (both bases are
+       * orthonormal), so an entry above ½ is the largest of its row and of
+       * its column: when every branch finds one, those modes are distinct
+       * and the assignment is the unique optimum (any other permutation
+       * replaces an entry > ½ by one < ½ in each row it changes). They are
+       * looked for first among the modes near the branch's previous place in
+       * ascending order; only otherwise is the whole matrix formed (zgemm)
+       * and Kuhn–Munkres run. */
       memset (taken, 0, nb * sizeof *taken);
       for (gsize b = 0; b < nb && simple; b++)
         {
-          gsize best = 0;
-          double bestv = -1;
-          for (gsize j = 0; j < nb; j++)
+          const double _Complex *e0 = set->eigenvectors + ((k - 1) * nb + order[(k - 1) * nb + b]) * nb;
+          gsize at = order[(k - 1) * nb + b], lo = at > WINDOW ? at - WINDOW : 0;
+          gsize hi = MIN (nb, at + WINDOW + 1);
+          gboolean found = FALSE;
+          for (gsize j = lo; j < hi && !found; j++)
             {
-              double _Complex o = overlap[b + j * nb];
-              double v = creal (o) * creal (o) + cimag (o) * cimag (o);
-              cost[b * nb + j] = 1.0 - v;
-              if (v > bestv)
+              const double _Complex *e1 = set->eigenvectors + (k * nb + j) * nb;
+              double _Complex o = 0;
+              for (gsize r = 0; r < nb; r++)
+                o += conj (e0[r]) * e1[r];
+              if (creal (o) * creal (o) + cimag (o) * cimag (o) > 0.5 + 1e-9 && !taken[j])
                 {
-                  bestv = v;
-                  best = j;
+                  taken[j] = TRUE;
+                  assign[b] = j;
+                  found = TRUE;
                 }
             }
-          if (bestv > 0.5 && !taken[best])
-            {
-              taken[best] = TRUE;
-              assign[b] = best;
-            }
-          else
-            simple = FALSE;
+          simple = found;
+        }
+      if (!simple)
+        {
+          /* the previous q's vectors in branch order, then O = Pᴴ E:
+           * O[b, j] = ⟨e_b(q_{k−1}) | e_j(q_k)⟩ */
+          for (gsize b = 0; b < nb; b++)
+            memcpy (prev + b * nb, set->eigenvectors + ((k - 1) * nb + order[(k - 1) * nb + b]) * nb,
+                    nb * sizeof *prev);
+          cblas_zgemm (CblasColMajor, CblasConjTrans, CblasNoTrans, (blasint) nb, (blasint) nb,
+                       (blasint) nb, &one, prev, (blasint) nb, set->eigenvectors + k * nb * nb,
+                       (blasint) nb, &zero, overlap, (blasint) nb);
         }
       if (!simple)
         {
