@@ -355,7 +355,8 @@ qv_compare_window_dispose (GObject *object)
   if (self->job)
     g_cancellable_cancel (self->job);
   g_clear_object (&self->job);
-  gtk_widget_dispose_template (GTK_WIDGET (self), QV_TYPE_COMPARE_WINDOW);
+  /* GtkWindow unparents its titlebar and child itself: no
+   * gtk_widget_dispose_template here (it would unparent them twice). */
   G_OBJECT_CLASS (qv_compare_window_parent_class)->dispose (object);
 }
 

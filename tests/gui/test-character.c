@@ -532,6 +532,9 @@ main (void)
   };
   int status;
 
+  /* A critical from GTK (a widget misused, say on closing a window) fails
+   * the run. */
+  g_log_set_always_fatal (G_LOG_FATAL_MASK | G_LOG_LEVEL_CRITICAL);
   qvg_app ();
   if (g_getenv ("QV_TEST_FILTER"))
     cmocka_set_test_filter (g_getenv ("QV_TEST_FILTER"));
