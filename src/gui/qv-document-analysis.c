@@ -3,23 +3,7 @@
 #include <glib/gi18n.h>
 #include "qv-config.h"
 #include <string.h>
-#include "qv-bundle.h"
 #include "qv-document-analysis.h"
-#include "qv-input.h"
-
-QvDerivatives *
-qv_document_analysis_read_derivatives (const char *path)
-{
-  g_autoptr(QvBundle) bundle = NULL;
-
-  if (path == NULL || !qv_input_is_bundle (path))
-    return NULL;
-  /* Read again, as `quaver spectrum` does: the input keeps no tensors. */
-  bundle = qv_bundle_read_file (path, NULL);
-  if (bundle == NULL || bundle->derivatives == NULL)
-    return NULL;
-  return g_steal_pointer (&bundle->derivatives);
-}
 
 QvDerivatives *
 qv_document_analysis_copy_derivatives (const QvDocumentAnalysis *a)

@@ -42,11 +42,6 @@ QvDocumentAnalysis *qv_document_analysis_new (const QvStructure *structure, cons
 void qv_document_analysis_free (QvDocumentAnalysis *analysis);
 G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvDocumentAnalysis, qv_document_analysis_free)
 
-/* The derivative tensors a bundle at @path carries, or NULL (none, not a
- * bundle, or unreadable: the document was read from it already, so a read
- * error here only means no tensors). */
-QvDerivatives *qv_document_analysis_read_derivatives (const char *path);
-
 /* A copy of @analysis's tensors for the next solve, or NULL. */
 QvDerivatives *qv_document_analysis_copy_derivatives (const QvDocumentAnalysis *analysis);
 

@@ -366,8 +366,8 @@ load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProg
                             : g_path_get_basename (d->source->geometry);
   /* The GObject is made here, on the worker, with the list's rows: the
    * main thread only shows it. */
-  analysis = qv_document_analysis_new (input->structure, modes,
-                                       qv_document_analysis_read_derivatives (d->source->geometry));
+  /* The bundle's tensors (the demo's too), kept by the input. */
+  analysis = qv_document_analysis_new (input->structure, modes, g_steal_pointer (&input->derivatives));
   doc = document_new (display, d->source->demo ? NULL : d->source->geometry,
                       g_steal_pointer (&input->structure),
                       g_steal_pointer (&input->hessian), modes, analysis);

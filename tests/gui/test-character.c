@@ -304,7 +304,8 @@ area_has_size (gpointer data)
 /* A click on a peak selects its mode: for each of the three strongest IR
  * lines of the core's intensities (computed here from the same charges),
  * a click at the pixel the plot puts that wavenumber at selects that mode,
- * and the pane marks it. Without tensors the pane has no plot. */
+ * and the pane marks it. The demo's own tensors are drawn as the core
+ * computes them; without tensors the pane has no plot. */
 static void
 test_spectrum_click (void **state)
 {
@@ -377,13 +378,41 @@ test_spectrum_click (void **state)
   close_window (window);
   solved_clear (&s);
 
-  /* The demo has no tensors: no plot, a note instead. */
+  /* The demo carries its own (invented) tensors: its sticks are the
+   * core's intensities of them. */
   {
     QvWindow *demo = qvg_window ();
+    QvInputOptions io = { .demo = TRUE, .all_modes = TRUE };
+    g_autoptr(QvInput) input = qv_input_load (&io, &error);
+    QvSolveOptions so;
+    g_autoptr(QvModeSet) modes = NULL;
+    g_autoptr(QvIntensities) demo_in = NULL;
+    const QvSpectrum *ds;
+
+    assert_non_null (input);
+    assert_non_null (input->derivatives);
+    qv_solve_options_init (&so);
+    modes = qv_solve (input->structure, g_steal_pointer (&input->hessian), &so, NULL, &error);
+    assert_non_null (modes);
+    demo_in = qv_intensities_compute (modes, input->derivatives, NULL, 1.0, &error);
+    assert_non_null (demo_in);
     qv_window_open_demo (demo);
     assert_true (qvg_wait (qvg_window_has_document, demo, 60.0));
-    assert_false (qv_spectrum_view_has_spectrum (qv_window_get_spectrum_view (demo)));
+    assert_true (qv_spectrum_view_has_spectrum (qv_window_get_spectrum_view (demo)));
+    ds = qv_spectrum_view_get_spectrum (qv_window_get_spectrum_view (demo));
+    assert_true (ds->n_sticks > 0);
+    for (gsize i = 0; i < ds->n_sticks; i++)
+      assert_float_equal (ds->stick_height[i], demo_in->modes[ds->stick_mode[i]].ir,
+                          1e-9 * MAX (1.0, demo_in->modes[ds->stick_mode[i]].ir));
     close_window (demo);
+  }
+
+  /* A bundle without tensors: no plot, a note instead. */
+  {
+    g_autofree char *stable = source_path (STABLE_BUNDLE);
+    QvWindow *plain = open_window (stable);
+    assert_false (qv_spectrum_view_has_spectrum (qv_window_get_spectrum_view (plain)));
+    close_window (plain);
   }
 }
 
