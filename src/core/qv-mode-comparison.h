@@ -18,6 +18,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #pragma once
 #include <glib.h>
+#include "qv-assignment.h"
 #include "qv-mode-set.h"
 #include "qv-structure.h"
 
@@ -56,7 +57,7 @@ typedef struct {
 void qv_comparison_options_init (QvComparisonOptions *options);
 
 /* Index meaning "no partner". */
-#define QV_COMPARISON_NONE G_MAXSIZE
+#define QV_COMPARISON_NONE QV_ASSIGNMENT_NONE
 
 typedef struct {
   gsize mode_a, mode_b;        /* 0-based mode indices */
@@ -141,13 +142,5 @@ const double *qv_mode_comparison_duschinsky_k (const QvModeComparison *c);
 /* K_i √(ω_i/ħ) with A's ω_i: dimensionless; NAN for A's imaginary or zero
  * modes. n_a values. */
 const double *qv_mode_comparison_duschinsky_k_dimensionless (const QvModeComparison *c);
-
-/* The assignment problem on its own, for tests and other callers: the
- * one-to-one matching of rows to columns of the row-major @n_rows × @n_cols
- * @weights that maximises the total weight (Kuhn–Munkres with potentials,
- * O(n²m)). @row_to_col receives n_rows entries (QV_COMPARISON_NONE for rows
- * left over when n_rows > n_cols). */
-void qv_assignment_maximise (const double *weights, gsize n_rows, gsize n_cols,
-                             gsize *row_to_col);
 
 G_END_DECLS
