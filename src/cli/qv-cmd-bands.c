@@ -21,20 +21,7 @@ static const char bands_description[] =
   "folded onto the PRIMITIVE cell (extended XYZ with Lattice=\"…\") and the\n"
   "dynamical matrix D(q) is solved along a path through the Brillouin zone.\n"
   "\n"
-  "The supercell and its Hessian (3N x 3N for its N atoms, in its own atom\n"
-  "order, x1 y1 z1 x2 …) come either as\n"
-  "  --supercell-structure FILE   the supercell's extended XYZ: atoms in any\n"
-  "                               order, each matched to a primitive site and a\n"
-  "                               lattice translation by position (--tolerance)\n"
-  "or as\n"
-  "  --supercell NxMxL            (or nine integers, rows = supercell vectors\n"
-  "                               in primitive vectors) when the Hessian's atoms\n"
-  "                               are in the standard order: lattice points\n"
-  "                               (n1 n2 n3) with n3 fastest, and inside each\n"
-  "                               point the primitive atoms in file order.\n"
-  "The acoustic sum rule is imposed (a projection that keeps the force\n"
-  "constants symmetric); the acoustic wavenumbers at Gamma before it are\n"
-  "reported. --no-sum-rule leaves the force constants as read.\n"
+  "%s"
   "\n"
   "Path: points \"LABEL QA QB QC\" in fractional reciprocal coordinates\n"
   "without 2 pi (q = QA b1 + QB b2 + QC b3, a_i.b_j = 2 pi delta_ij),\n"
@@ -59,35 +46,6 @@ static const char bands_description[] =
   "Harmonic phonons are an approximation: validate them before relying on them.";
 
 typedef enum { FORMAT_TEXT, FORMAT_CSV, FORMAT_JSON } Format;
-
-static QvStructure *
-read_structure (const char *path, const char *what, GError **error)
-{
-  g_autoptr(GPtrArray) frames = NULL;
-  QvStructure *s;
-  const char *dot = strrchr (path, '.');
-
-  if (dot && g_ascii_strcasecmp (dot, ".cif") == 0)
-    {
-      g_set_error (error, QV_ERROR, QV_ERROR_INPUT,
-                   "%s: CIF is not read by 'bands' yet; write the %s as extended XYZ with "
-                   "Lattice=\"ax ay az bx by bz cx cy cz\"", path, what);
-      return NULL;
-    }
-  frames = qv_xyz_read_file (path, error);
-  if (frames == NULL)
-    return NULL;
-  s = qv_structure_copy (g_ptr_array_index (frames, 0));
-  if (!s->has_cell)
-    {
-      g_set_error (error, QV_ERROR, QV_ERROR_INPUT,
-                   "%s: the %s has no cell; add Lattice=\"ax ay az bx by bz cx cy cz\" (Å) to its "
-                   "comment line (extended XYZ)", path, what);
-      qv_structure_free (s);
-      return NULL;
-    }
-  return s;
-}
 
 static char *
 fmt (double v, const char *format)
@@ -280,6 +238,11 @@ qv_cmd_bands (int argc, char **argv)
     row_sum = qv_force_constants_apply_sum_rule (fc, before);
   else
     qv_force_constants_gamma_acoustic (fc, before);
+  if (fabs (before[0]) > 10 || fabs (before[2]) > 10)
+    g_printerr ("quaver: note: the acoustic modes at Gamma are at %.1f, %.1f, %.1f cm^-1 %s; "
+                "tens of cm^-1 mean the Hessian or the geometry is not converged (or the "
+                "supercell is too small)\n", before[0], before[1], before[2],
+                no_sum_rule ? "(no sum rule imposed)" : "before the sum rule");
 
   path = path_arg ? qv_band_path_parse (path_arg, &error)
                   : qv_band_path_default (primitive->cell, 0, &error);

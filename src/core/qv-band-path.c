@@ -2,6 +2,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <cblas.h>
 #include <errno.h>
+#include <complex.h>
 #include <math.h>
 #include <string.h>
 #include "qv-band-path.h"

@@ -1,6 +1,7 @@
 /* qv-dynamical-matrix.c — D(q), zheevd over a thread pool.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <lapacke.h>
+#include <complex.h>
 #include <math.h>
 #include <string.h>
 #include "qv-dynamical-matrix.h"

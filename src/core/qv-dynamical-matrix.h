@@ -8,7 +8,8 @@
  * b_i with a_i·b_j = 2π δ_ij (so f = (½, 0, 0) is half of b_1).
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #pragma once
-#include <complex.h>
+/* double _Complex is the C99 type; <complex.h> (and its macro I) is left to
+ * the files that compute with it. */
 #include <glib.h>
 #include "qv-force-constants.h"
 #include "qv-progress.h"

@@ -8,6 +8,7 @@
 #include <setjmp.h>
 #include <cmocka.h>
 #include <lapacke.h>
+#include <complex.h>
 #include <math.h>
 #include <string.h>
 #include "lattice-model.h"
