@@ -9,6 +9,7 @@
 #include <glib.h>
 #include "qv-displacement.h"
 #include "qv-ensemble.h"
+#include "qv-frozen-phonon.h"
 #include "qv-manifest.h"
 #include "qv-mode-set.h"
 #include "qv-progress.h"
@@ -58,6 +59,13 @@ QvExport *qv_export_new_ensemble (const QvStructure *structure, const QvModeSet 
 QvExport *qv_export_new_stencil (const QvStructure *structure, const QvStencil *stencil,
                                  const QvExportFormat *format, QvManifest *manifest,
                                  GError **error);
+/* A supercell displaced along one lattice mode (qv_frozen_phonon_new), as
+ * one extended-XYZ file with its Lattice, q, branch, wavenumber, amplitude
+ * and phase on the comment line and in the manifest. @fp may be freed after
+ * the call (the export keeps a copy of the structure). */
+QvExport *qv_export_new_frozen (const QvFrozenPhonon *fp, const QvExportFormat *format,
+                                QvManifest *manifest, GError **error);
+
 void qv_export_free (QvExport *export_);
 G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvExport, qv_export_free)
 
