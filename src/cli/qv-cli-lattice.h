@@ -1,0 +1,61 @@
+/* qv-cli-lattice.h — the input of the lattice commands (bands, dos,
+ * thermo): a primitive cell, a supercell (its structure or its matrix) and
+ * the supercell's Hessian, turned into force constants with the acoustic
+ * sum rule.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#pragma once
+#include <glib.h>
+#include "qv-force-constants.h"
+#include "qv-hessian-file.h"
+#include "qv-structure.h"
+#include "qv-supercell.h"
+
+G_BEGIN_DECLS
+
+typedef struct {
+  char *supercell_structure;
+  char *supercell;
+  char *hessian;
+  char *units;
+  char *layout;
+  double tolerance;
+  gboolean no_sum_rule;
+  gint64 threads;
+} QvCliLatticeOptions;
+
+/* Defaults (tolerance QV_SUPERCELL_DEFAULT_TOLERANCE, threads 0). */
+void qv_cli_lattice_options_init (QvCliLatticeOptions *o);
+void qv_cli_lattice_options_clear (QvCliLatticeOptions *o);
+/* Adds --supercell-structure/-S, --supercell, --hessian/-H,
+ * --hessian-units/-u, --hessian-layout, --no-sum-rule, --tolerance and
+ * --threads to the main group of @context, bound to @o (which must outlive
+ * the parse). */
+void qv_cli_lattice_add_entries (GOptionContext *context, QvCliLatticeOptions *o);
+/* The description paragraph of those options, for help texts. */
+extern const char qv_cli_lattice_help[];
+
+typedef struct {
+  QvStructure *primitive;
+  QvSupercellMap *map;
+  QvForceConstants *fc;
+  QvHessianUnit unit;
+  double before[3];          /* acoustic wavenumbers at Γ before the sum rule, cm⁻¹ */
+  double row_sum;            /* largest row sum removed, eV/Å² */
+} QvCliLattice;
+
+void qv_cli_lattice_free (QvCliLattice *lattice);
+G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvCliLattice, qv_cli_lattice_free)
+
+/* Reads the extended XYZ structure @path, which must have a cell
+ * (QV_ERROR_INPUT naming @what otherwise; CIF is refused with a hint). */
+QvStructure *qv_cli_lattice_read_structure (const char *command, const char *path,
+                                            const char *what, GError **error);
+
+/* Checks @o (QV_ERROR_USAGE naming @command), reads the primitive cell
+ * @primitive_path, the supercell and the Hessian, builds the force
+ * constants, imposes the sum rule unless --no-sum-rule and prints the
+ * notes of `quaver bands` (periodicity, acoustic wavenumbers) on stderr. */
+QvCliLattice *qv_cli_lattice_load (const char *command, const QvCliLatticeOptions *o,
+                                   const char *primitive_path, GError **error);
+
+G_END_DECLS
