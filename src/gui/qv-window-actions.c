@@ -152,7 +152,7 @@ qv_window_actions_install (QvWindow *self)
     }
   play = g_property_action_new ("play", qv_window_get_mode_view (self), "playing");
   g_action_map_add_action (G_ACTION_MAP (self), G_ACTION (play));
-  pane = g_property_action_new ("toggle-export-pane", qv_window_get_export_revealer (self), "reveal-child");
+  pane = g_property_action_new ("toggle-export-pane", qv_window_get_export_flap (self), "reveal-flap");
   g_action_map_add_action (G_ACTION_MAP (self), G_ACTION (pane));
   spectrum = g_property_action_new ("toggle-spectrum", qv_window_get_spectrum_revealer (self), "reveal-child");
   g_action_map_add_action (G_ACTION_MAP (self), G_ACTION (spectrum));

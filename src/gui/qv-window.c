@@ -32,7 +32,8 @@ struct _QvWindow
   QvMotionBar *motion_bar;
   QvModePanel *mode_panel;
   QvModeDetail *mode_detail;
-  GtkRevealer *export_revealer;
+  AdwFlap *export_flap;
+  GtkOverlay *view_overlay;
   QvExportPane *export_pane;
   GtkWidget *spectrum_button;
   GtkRevealer *spectrum_revealer;
@@ -793,7 +794,8 @@ qv_window_class_init (QvWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvWindow, motion_bar);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, mode_panel);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, mode_detail);
-  gtk_widget_class_bind_template_child (widget_class, QvWindow, export_revealer);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, export_flap);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, view_overlay);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, export_pane);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, spectrum_button);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, spectrum_revealer);
@@ -865,6 +867,10 @@ qv_window_init (QvWindow *self)
   qv_window_actions_update (self);
   update_title (self);
   qv_export_pane_attach (self->export_pane, GTK_WIDGET (self));
+  /* The motion bar floats over the view but its width counts: the view
+   * never gets narrower than the bar, so the bar is never cut off (with the
+   * export pane open on a narrow window, the pane slides over instead). */
+  gtk_overlay_set_measure_overlay (self->view_overlay, GTK_WIDGET (self->motion_bar), TRUE);
 }
 
 QvWindow *
@@ -881,10 +887,10 @@ QvModeDetail *qv_window_get_mode_detail (QvWindow *self) { return self->mode_det
 QvSpectrumView *qv_window_get_spectrum_view (QvWindow *self) { return self->spectrum_view; }
 GtkRevealer *qv_window_get_spectrum_revealer (QvWindow *self) { return self->spectrum_revealer; }
 
-GtkRevealer *
-qv_window_get_export_revealer (QvWindow *self)
+AdwFlap *
+qv_window_get_export_flap (QvWindow *self)
 {
-  return self->export_revealer;
+  return self->export_flap;
 }
 
 QvExportPane *

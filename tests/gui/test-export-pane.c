@@ -50,7 +50,7 @@ demo_window_with_pane (void)
   qv_window_open_demo (window);
   assert_true (qvg_wait (qvg_window_has_document, window, 60.0));
   g_action_group_activate_action (G_ACTION_GROUP (window), "toggle-export-pane", NULL);
-  assert_true (gtk_revealer_get_reveal_child (qv_window_get_export_revealer (window)));
+  assert_true (adw_flap_get_reveal_flap (qv_window_get_export_flap (window)));
   assert_true (qvg_wait (pane_mapped, window, 10.0));
   qvg_spin (0.1);
   return window;
