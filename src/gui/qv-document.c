@@ -142,6 +142,8 @@ qv_document_source_copy (const QvDocumentSource *s)
   c->hessian = g_strdup (s->hessian);
   c->hessian_units = g_strdup (s->hessian_units);
   c->hessian_layout = g_strdup (s->hessian_layout);
+  c->mass_model = s->mass_model;
+  c->bundle_hessian = g_strdup (s->bundle_hessian);
   return c;
 }
 
@@ -154,6 +156,7 @@ qv_document_source_free (QvDocumentSource *s)
   g_free (s->hessian);
   g_free (s->hessian_units);
   g_free (s->hessian_layout);
+  g_free (s->bundle_hessian);
   g_free (s);
 }
 
@@ -372,6 +375,10 @@ load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProg
                       g_steal_pointer (&input->structure),
                       g_steal_pointer (&input->hessian), modes, analysis);
   doc->source = qv_document_source_copy (d->source);
+  doc->source->mass_model = input->mass_model;
+  if (!d->source->demo && !d->source->hessian && input->hessian_source
+      && g_file_test (input->hessian_source, G_FILE_TEST_IS_REGULAR))
+    doc->source->bundle_hessian = g_strdup (input->hessian_source);
   g_task_return_pointer (task, doc, g_object_unref);
 }
 

@@ -25,6 +25,10 @@ typedef struct {
   char *hessian;
   char *hessian_units;
   char *hessian_layout;
+  /* Filled in when read: the masses the input asked for, and a bundle's
+   * Hessian file (NULL when inline), so exports record what was used. */
+  QvMassModel mass_model;
+  char *bundle_hessian;
 } QvDocumentSource;
 
 QvDocumentSource *qv_document_source_copy (const QvDocumentSource *source);

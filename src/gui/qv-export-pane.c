@@ -87,6 +87,10 @@ qv_export_pane_manifest (const QvDocumentSource *source, const char *command, GE
         return NULL;
       if (source->hessian && !qv_manifest_add_input_file (manifest, "hessian", source->hessian, error))
         return NULL;
+      /* a bundle's Hessian in a file of its own, as the command line does */
+      if (source->bundle_hessian
+          && !qv_manifest_add_input_file (manifest, "hessian", source->bundle_hessian, error))
+        return NULL;
     }
   /* No command line: the options are in the manifest's own fields. */
   qv_manifest_add_argument (manifest, "(app)");

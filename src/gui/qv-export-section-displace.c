@@ -77,7 +77,8 @@ static QvExport *
 plan_displace (const QvExportInputs *inputs, gconstpointer options, QvManifest *manifest, GError **error)
 {
   const DisplaceOptions *o = options;
-  return qv_export_new_displace (inputs->structure, inputs->modes, QV_MASS_ISOTOPIC, &o->request,
+  return qv_export_new_displace (inputs->structure, inputs->modes,
+                                 inputs->source ? inputs->source->mass_model : QV_MASS_ISOTOPIC, &o->request,
                                  &o->format, manifest, error);
 }
 

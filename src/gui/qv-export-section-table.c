@@ -98,7 +98,13 @@ qv_export_section_table_build (QvExportSectionTable *self)
   report.unit = unit;
   report.hessian_source = source && !source->demo ? source->hessian : NULL;
   report.hessian_units = source && !source->demo ? source->hessian_units : NULL;
-  report.mass_model = QV_MASS_ISOTOPIC;
+  report.mass_model = source ? source->mass_model : QV_MASS_ISOTOPIC;
+  /* the species and make-up the document worked out (NULL without) */
+  if (qv_document_get_analysis (doc))
+    {
+      report.symmetry = qv_document_get_analysis (doc)->symmetry;
+      report.character = qv_document_get_analysis (doc)->character;
+    }
   layout.report = &report;
   layout.columns = columns;
   layout.n_columns = n;
