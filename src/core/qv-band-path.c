@@ -5,6 +5,7 @@
 #include <complex.h>
 #include <math.h>
 #include <string.h>
+#include "qv-assignment.h"
 #include "qv-band-path.h"
 #include "qv-error.h"
 #include "qv-supercell.h"
@@ -514,67 +515,6 @@ qv_band_path_sample (const QvBandPath *p, const double cell[3][3], gsize n_point
 /* ------------------------------------------------------------------ */
 /* Connection by overlap                                                */
 
-/* Kuhn–Munkres on an n × n cost matrix (row-major); assign[i] = column of
- * row i. The O(n³) potentials form of the algorithm. */
-static void
-hungarian (gsize n, const double *cost, gsize *assign)
-{
-  double *u = g_new0 (double, n + 1), *v = g_new0 (double, n + 1), *minv = g_new (double, n + 1);
-  gsize *p = g_new0 (gsize, n + 1), *way = g_new0 (gsize, n + 1);
-  gboolean *used = g_new (gboolean, n + 1);
-
-  for (gsize i = 1; i <= n; i++)
-    {
-      gsize j0 = 0;
-      p[0] = i;
-      for (gsize j = 0; j <= n; j++)
-        {
-          minv[j] = G_MAXDOUBLE;
-          used[j] = FALSE;
-        }
-      do
-        {
-          gsize i0 = p[j0], j1 = 0;
-          double delta = G_MAXDOUBLE;
-          used[j0] = TRUE;
-          for (gsize j = 1; j <= n; j++)
-            if (!used[j])
-              {
-                double cur = cost[(i0 - 1) * n + (j - 1)] - u[i0] - v[j];
-                if (cur < minv[j])
-                  {
-                    minv[j] = cur;
-                    way[j] = j0;
-                  }
-                if (minv[j] < delta)
-                  {
-                    delta = minv[j];
-                    j1 = j;
-                  }
-              }
-          for (gsize j = 0; j <= n; j++)
-            if (used[j])
-              {
-                u[p[j]] += delta;
-                v[j] -= delta;
-              }
-            else
-              minv[j] -= delta;
-          j0 = j1;
-        }
-      while (p[j0] != 0);
-      do
-        {
-          gsize j1 = way[j0];
-          p[j0] = p[j1];
-          j0 = j1;
-        }
-      while (j0);
-    }
-  for (gsize j = 1; j <= n; j++)
-    assign[p[j] - 1] = j - 1;
-  g_free (u); g_free (v); g_free (minv); g_free (p); g_free (way); g_free (used);
-}
 
 #define WINDOW 8
 
@@ -582,7 +522,7 @@ void
 qv_band_connect (const QvPhononSet *set, const gboolean *restart, guint *order)
 {
   gsize nb = set->n_branches;
-  g_autofree double *cost = g_new (double, nb * nb);
+  g_autofree double *weight = g_new (double, nb * nb);
   g_autofree gsize *assign = g_new (gsize, nb);
   g_autofree gboolean *taken = g_new (gboolean, nb);
   g_autofree double _Complex *prev = g_new (double _Complex, nb * nb);
@@ -646,9 +586,10 @@ qv_band_connect (const QvPhononSet *set, const gboolean *restart, guint *order)
             for (gsize j = 0; j < nb; j++)
               {
                 double _Complex o = overlap[b + j * nb];
-                cost[b * nb + j] = 1.0 - (creal (o) * creal (o) + cimag (o) * cimag (o));
+                weight[b * nb + j] = creal (o) * creal (o) + cimag (o) * cimag (o);
               }
-          hungarian (nb, cost, assign);
+          /* the branches that keep the largest total overlap |⟨e|e'⟩|² */
+          qv_assignment_maximise (weight, nb, nb, assign);
         }
       for (gsize b = 0; b < nb; b++)
         order[k * nb + b] = (guint) assign[b];
