@@ -36,6 +36,13 @@ qv_dynamical_matrix_cartesian_q (const double cell[3][3], const double q[3], dou
 void
 qv_dynamical_matrix_build (const QvForceConstants *fc, const double q[3], double _Complex *d)
 {
+  qv_dynamical_matrix_build_with (fc, NULL, NULL, q, d);
+}
+
+void
+qv_dynamical_matrix_build_with (const QvForceConstants *fc, QvDynamicalTerm term, gpointer data,
+                                const double q[3], double _Complex *d)
+{
   gsize n = qv_force_constants_n_sites (fc), nb = 3 * n, nc = qv_force_constants_n_cells (fc);
   const double *m = qv_force_constants_masses (fc), *tau = qv_force_constants_positions (fc);
   int nmax = qv_force_constants_max_translation (fc), width = 2 * nmax + 1;
@@ -81,6 +88,8 @@ qv_dynamical_matrix_build (const QvForceConstants *fc, const double q[3], double
         }
   g_free (table);
   g_free (site);
+  if (term)
+    term (q, d, data);
   for (gsize r = 0; r < nb; r++)
     {
       d[r + r * nb] = creal (d[r + r * nb]);
@@ -95,6 +104,8 @@ qv_dynamical_matrix_build (const QvForceConstants *fc, const double q[3], double
 
 typedef struct {
   const QvForceConstants *fc;
+  QvDynamicalTerm term;
+  gpointer term_data;
   const double *q;
   QvPhononSet *set;
   gsize chunk;
@@ -166,7 +177,7 @@ solve_one (Job *job, gsize k, Workspace *ws, GError **error)
   double _Complex *d = ws->d;
   lapack_int info;
 
-  qv_dynamical_matrix_build (job->fc, job->q + 3 * k, d);
+  qv_dynamical_matrix_build_with (job->fc, job->term, job->term_data, job->q + 3 * k, d);
   info = LAPACKE_zheevd_work (LAPACK_COL_MAJOR, set->eigenvectors ? 'V' : 'N', 'U',
                               (lapack_int) nb, d, (lapack_int) nb, ws->w, ws->work, ws->lwork,
                               ws->rwork, ws->lrwork, ws->iwork, ws->liwork);
@@ -237,6 +248,15 @@ qv_dynamical_matrix_solve (const QvForceConstants *fc, const double *q, gsize n_
                            gboolean want_vectors, guint n_threads, const QvProgress *progress,
                            GError **error)
 {
+  return qv_dynamical_matrix_solve_with (fc, NULL, NULL, q, n_q, want_vectors, n_threads,
+                                         progress, error);
+}
+
+QvPhononSet *
+qv_dynamical_matrix_solve_with (const QvForceConstants *fc, QvDynamicalTerm term, gpointer data,
+                                const double *q, gsize n_q, gboolean want_vectors,
+                                guint n_threads, const QvProgress *progress, GError **error)
+{
   g_autoptr(QvPhononSet) set = g_new0 (QvPhononSet, 1);
   gsize nb = 3 * qv_force_constants_n_sites (fc);
   GThreadPool *pool;
@@ -269,6 +289,8 @@ qv_dynamical_matrix_solve (const QvForceConstants *fc, const double *q, gsize n_
     openblas_set_num_threads (1);
 
   job.fc = fc;
+  job.term = term;
+  job.term_data = data;
   job.q = q;
   job.set = set;
   job.chunk = MAX ((gsize) 1, n_q / (8 * (gsize) n_threads));

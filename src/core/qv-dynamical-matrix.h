@@ -35,6 +35,16 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvPhononSet, qv_phonon_set_free)
  * with D(q) in eV/(Å² u), made exactly Hermitian. @q fractional. */
 void qv_dynamical_matrix_build (const QvForceConstants *fc, const double q[3], double _Complex *d);
 
+/* An optional term added to D(q) after the force-constant part and before
+ * D is made exactly Hermitian (@d as above, eV/(Å² u)); the non-analytic
+ * correction of polar crystals (qv-nonanalytic.h) is one. It is called
+ * from the solver's worker threads, so it must only read @data. */
+typedef void (*QvDynamicalTerm) (const double q[3], double _Complex *d, gpointer data);
+
+/* qv_dynamical_matrix_build with @term (may be NULL: the same as build). */
+void qv_dynamical_matrix_build_with (const QvForceConstants *fc, QvDynamicalTerm term,
+                                     gpointer data, const double q[3], double _Complex *d);
+
 /* Cartesian q (Å⁻¹, with the 2π) of the fractional @q for @cell (rows). */
 void qv_dynamical_matrix_cartesian_q (const double cell[3][3], const double q[3], double out[3]);
 
@@ -48,5 +58,12 @@ void qv_dynamical_matrix_cartesian_q (const double cell[3][3], const double q[3]
 QvPhononSet *qv_dynamical_matrix_solve (const QvForceConstants *fc, const double *q, gsize n_q,
                                         gboolean want_vectors, guint n_threads,
                                         const QvProgress *progress, GError **error);
+
+/* qv_dynamical_matrix_solve with @term added to every D(q) (NULL: the
+ * same as solve). */
+QvPhononSet *qv_dynamical_matrix_solve_with (const QvForceConstants *fc, QvDynamicalTerm term,
+                                             gpointer data, const double *q, gsize n_q,
+                                             gboolean want_vectors, guint n_threads,
+                                             const QvProgress *progress, GError **error);
 
 G_END_DECLS

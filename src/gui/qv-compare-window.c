@@ -4,6 +4,7 @@
 #include "qv-config.h"
 #include <string.h>
 #include "qv-compare-window.h"
+#include "qv-comparison-table.h"
 #include "qv-error.h"
 #include "qv-json-writer.h"
 #include "qv-output.h"
@@ -203,67 +204,11 @@ qv_compare_window_load (QvCompareWindow *self, const QvDocumentSource *source)
 
 /* ---- CSV ---- */
 
-static void
-csv_number (GString *out, double value)
-{
-  char buf[G_ASCII_DTOSTR_BUF_SIZE];
-  g_string_append (out, qv_json_format_double (buf, value));
-}
-
 char *
 qv_compare_window_format_csv (QvCompareWindow *self)
 {
-  const QvModeComparison *c = self->comparison;
-  GString *out;
-  gsize n_a, n_b;
-  const double *o;
-
-  if (c == NULL)
-    return NULL;
-  /* The columns of `quaver compare --format csv`: one row per mode of A,
-   * its match in B, then its overlap with every mode of B. */
-  out = g_string_new ("mode_a,wavenumber_a_cm^-1,match_b,wavenumber_b_cm^-1,shift_cm^-1,"
-                      "overlap,subspace_overlap,degenerate");
-  n_a = qv_mode_comparison_n_modes_a (c);
-  n_b = qv_mode_comparison_n_modes_b (c);
-  o = qv_mode_comparison_overlaps (c);
-  for (gsize j = 0; j < n_b; j++)
-    g_string_append_printf (out, ",overlap_b%" G_GSIZE_FORMAT, j + 1);
-  g_string_append_c (out, '\n');
-  for (gsize i = 0; i < n_a; i++)
-    {
-      const QvModePair *p = NULL;
-
-      for (gsize k = 0; k < qv_mode_comparison_n_pairs (c); k++)
-        if (qv_mode_comparison_pair (c, k)->mode_a == i)
-          p = qv_mode_comparison_pair (c, k);
-      g_string_append_printf (out, "%" G_GSIZE_FORMAT ",", i + 1);
-      if (p)
-        {
-          csv_number (out, p->wavenumber_a);
-          g_string_append_printf (out, ",%" G_GSIZE_FORMAT ",", p->mode_b + 1);
-          csv_number (out, p->wavenumber_b);
-          g_string_append_c (out, ',');
-          csv_number (out, p->shift);
-          g_string_append_c (out, ',');
-          csv_number (out, p->overlap);
-          g_string_append_c (out, ',');
-          csv_number (out, p->subspace_overlap);
-          g_string_append (out, p->degenerate ? ",true" : ",false");
-        }
-      else
-        {
-          csv_number (out, qv_mode_comparison_wavenumber_a (c, i));
-          g_string_append (out, ",,,,,,");
-        }
-      for (gsize j = 0; j < n_b; j++)
-        {
-          g_string_append_c (out, ',');
-          csv_number (out, o[i * n_b + j]);
-        }
-      g_string_append_c (out, '\n');
-    }
-  return g_string_free (out, FALSE);
+  /* the columns of `quaver compare --format csv` (src/io) */
+  return self->comparison ? qv_comparison_table_csv (self->comparison) : NULL;
 }
 
 gboolean
