@@ -10,19 +10,17 @@
 #include "qv-mode-view.h"
 #ifdef QV_GUI_HAVE_RENDERER
 #include "qv-camera.h"
+#include "qv-picture.h"
 #include "qv-renderer.h"
 #include "qv-style.h"
 #endif
 
 /* A press that moves less than this (px) before release is a click. */
 #define CLICK_SLOP 4.0
-/* The longest arrow of a mode, in Å, whatever the amplitude: it reaches
- * about 1.2–1.4 Å beyond its atom's sphere (arrows start at 0.85 of the
- * radius, qv-renderer). Atoms that move less than ARROW_MIN_SHARE of the
- * largest displacement get no arrow. Presentation only: the displacements
- * are the core's. */
-#define ARROW_LONGEST 1.4
-#define ARROW_MIN_SHARE 0.05
+/* Arrows are scaled as in pictures (qv-picture.h): the longest arrow of a
+ * mode is QV_PICTURE_ARROW_LONGEST Å whatever the amplitude, and atoms that
+ * move less than QV_PICTURE_ARROW_MIN_SHARE of the largest displacement get
+ * none. Presentation only: the displacements are the core's. */
 /* The still view is drawn in the renderer's quality mode this long after
  * the last zoom or roll step. */
 #define SETTLE_MS 250
@@ -192,8 +190,8 @@ upload (QvModeView *self)
       options.labels = self->show_labels;
       if (largest > 0.0)
         {
-          options.arrow_scale = (float) (ARROW_LONGEST / largest);
-          options.arrow_threshold = (float) (ARROW_MIN_SHARE * largest);
+          options.arrow_scale = (float) (QV_PICTURE_ARROW_LONGEST / largest);
+          options.arrow_threshold = (float) (QV_PICTURE_ARROW_MIN_SHARE * largest);
         }
       /* Moving (playing, dragged, zoomed): the renderer's fastest look,
        * hard edges on one sample; still: its quality for still pictures,
