@@ -19,6 +19,7 @@
 #ifdef QV_HAVE_RENDER
 #include "qv-png-writer.h"
 #include "qv-spectrum-plot.h"
+#include "qv-spectrum-table.h"
 #endif
 
 static const char spectrum_description[] =
@@ -222,53 +223,6 @@ static const char *
 kind_unit (Kind kind)
 {
   return kind == KIND_IR ? "km/mol" : kind == KIND_RAMAN ? "1e-30 cm^2/sr" : "A^4/u";
-}
-
-static void
-csv_number (GString *out, double v)
-{
-  char buf[G_ASCII_DTOSTR_BUF_SIZE];
-  g_string_append_c (out, ',');
-  if (isfinite (v))
-    g_string_append (out, qv_json_format_double (buf, v));
-}
-
-static char *
-stick_csv (const QvIntensities *in, double scale)
-{
-  GString *out = g_string_new ("mode,wavenumber_cm-1,scaled_wavenumber_cm-1,ir_km_mol,"
-                               "raman_activity_A4_u,raman_intensity_1e-30_cm2_sr\n");
-  for (gsize k = 0; k < in->n_modes; k++)
-    {
-      const QvModeIntensity *m = &in->modes[k];
-      g_string_append_printf (out, "%" G_GSIZE_FORMAT, k + 1);
-      csv_number (out, m->wavenumber);
-      csv_number (out, m->wavenumber * scale);
-      csv_number (out, in->has_ir && m->defined ? m->ir : NAN);
-      csv_number (out, in->has_raman && m->defined ? m->raman_activity : NAN);
-      csv_number (out, in->has_raman && m->raman_defined ? m->raman_intensity : NAN);
-      g_string_append_c (out, '\n');
-    }
-  return g_string_free (out, FALSE);
-}
-
-static char *
-envelope_csv (const QvSpectrum *s, Kind kind)
-{
-  GString *out = g_string_new (NULL);
-  char buf[G_ASCII_DTOSTR_BUF_SIZE];
-  g_autofree char *unit = g_strdelimit (g_strdup (kind_unit (kind)), " /^", '_');
-
-  g_string_append_printf (out, "wavenumber_cm-1,%s_%s_per_cm-1\n",
-                          kind == KIND_IR ? "ir" : kind == KIND_RAMAN ? "raman" : "raman_activity",
-                          unit);
-  for (gsize i = 0; i < s->n_points; i++)
-    {
-      g_string_append (out, qv_json_format_double (buf, qv_spectrum_x (s, i)));
-      csv_number (out, s->envelope[i]);
-      g_string_append_c (out, '\n');
-    }
-  return g_string_free (out, FALSE);
 }
 
 static void
@@ -602,8 +556,12 @@ qv_cmd_spectrum (int argc, char **argv)
     {
     case OUT_CSV:
       {
-        g_autofree char *text = envelope_only ? envelope_csv (spectrum, kind)
-                                              : stick_csv (intensities, scale);
+        g_autofree char *text = envelope_only
+          ? qv_spectrum_table_envelope_csv (spectrum,
+                                            kind == KIND_IR ? "ir" : kind == KIND_RAMAN ? "raman"
+                                                                                       : "raman_activity",
+                                            kind_unit (kind))
+          : qv_spectrum_table_sticks_csv (intensities, scale);
         status = qv_cli_emit ("spectrum", output, text, force);
         break;
       }

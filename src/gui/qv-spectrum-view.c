@@ -3,6 +3,11 @@
 #include <glib/gi18n.h>
 #include "qv-config.h"
 #include <math.h>
+#include <string.h>
+#include "qv-error.h"
+#include "qv-output.h"
+#include "qv-png-writer.h"
+#include "qv-spectrum-table.h"
 #include "qv-spectrum-view.h"
 
 struct _QvSpectrumView
@@ -16,6 +21,7 @@ struct _QvSpectrumView
   GtkDrawingArea *area;
   GtkLabel *none_label;
   GtkLabel *hint_label;
+  GtkButton *save_button;
 
   QvDocument *document;
   QvSpectrumKind kinds[3];       /* the dropdown's entries */
@@ -339,6 +345,104 @@ qv_spectrum_view_get_spectrum (QvSpectrumView *self)
   return self->spectrum;
 }
 
+/* ---- saving ---- */
+
+gboolean
+qv_spectrum_view_save (QvSpectrumView *self, const char *path, gboolean force, GError **error)
+{
+  const char *dot = strrchr (path, '.');
+  QvSpectrumPlotOptions o;
+  int width = MAX (gtk_widget_get_width (GTK_WIDGET (self->area)), 640);
+  int height = MAX (gtk_widget_get_height (GTK_WIDGET (self->area)), 360);
+  gsize length = 0;
+  g_autofree guint8 *bytes = NULL;
+
+  if (self->spectrum == NULL)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "%s", _("There is no spectrum to save"));
+      return FALSE;
+    }
+  qv_spectrum_view_get_plot_options (self, &o);
+  o.width = width;
+  o.height = height;
+  if (dot && g_ascii_strcasecmp (dot, ".csv") == 0)
+    {
+      const char *quantity = self->kind == QV_SPECTRUM_KIND_IR ? "ir"
+                             : self->kind == QV_SPECTRUM_KIND_RAMAN_INTENSITY ? "raman" : "raman_activity";
+      const char *unit = self->kind == QV_SPECTRUM_KIND_IR ? "km/mol"
+                         : self->kind == QV_SPECTRUM_KIND_RAMAN_INTENSITY ? "1e-30 cm^2/sr" : "A^4/u";
+      char *text = qv_spectrum_table_envelope_csv (self->spectrum, quantity, unit);
+      length = strlen (text);
+      bytes = (guint8 *) text;
+    }
+  else if (dot && g_ascii_strcasecmp (dot, ".svg") == 0)
+    {
+      bytes = (guint8 *) qv_spectrum_plot_svg (self->spectrum, &o, &length, error);
+      if (bytes == NULL)
+        return FALSE;
+    }
+  else if (dot && g_ascii_strcasecmp (dot, ".png") == 0)
+    {
+      g_autofree guint8 *rgba = qv_spectrum_plot_rgba (self->spectrum, &o, error);
+      const char *text[] = { "Software", "quaver " QV_VERSION, NULL };
+      if (rgba == NULL)
+        return FALSE;
+      bytes = qv_png_encode (rgba, o.width, o.height, FALSE, text, &length, error);
+      if (bytes == NULL)
+        return FALSE;
+    }
+  else
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "%s",
+                   _("End the file name in .csv, .png or .svg to choose the format"));
+      return FALSE;
+    }
+  return qv_output_write (path, (const char *) bytes, length, force, error);
+}
+
+static void
+save_response (GtkNativeDialog *chooser, int response, gpointer data)
+{
+  QvSpectrumView *self = data;
+
+  if (response == GTK_RESPONSE_ACCEPT)
+    {
+      g_autoptr(GFile) file = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (chooser));
+      g_autofree char *path = file ? g_file_get_path (file) : NULL;
+      g_autoptr(GError) error = NULL;
+
+      /* The chooser has asked before replacing a file. */
+      if (path && !qv_spectrum_view_save (self, path, TRUE, &error))
+        {
+          GtkRoot *root = gtk_widget_get_root (GTK_WIDGET (self));
+          GtkWidget *dialog = gtk_message_dialog_new (GTK_IS_WINDOW (root) ? GTK_WINDOW (root) : NULL,
+                                                      GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
+                                                      GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE, "%s",
+                                                      _("The spectrum could not be saved"));
+          gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog), "%s", error->message);
+          g_signal_connect (dialog, "response", G_CALLBACK (gtk_window_destroy), NULL);
+          gtk_window_present (GTK_WINDOW (dialog));
+        }
+    }
+  gtk_native_dialog_destroy (chooser);
+  g_object_unref (chooser);
+  g_object_unref (self);
+}
+
+static void
+save_clicked (QvSpectrumView *self)
+{
+  GtkRoot *root = gtk_widget_get_root (GTK_WIDGET (self));
+  GtkFileChooserNative *chooser =
+    gtk_file_chooser_native_new (_("Save the Spectrum"), GTK_IS_WINDOW (root) ? GTK_WINDOW (root) : NULL,
+                                 GTK_FILE_CHOOSER_ACTION_SAVE, _("_Save"), _("_Cancel"));
+
+  gtk_file_chooser_set_current_name (GTK_FILE_CHOOSER (chooser), "spectrum.svg");
+  gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
+  g_signal_connect (chooser, "response", G_CALLBACK (save_response), g_object_ref (self));
+  gtk_native_dialog_show (GTK_NATIVE_DIALOG (chooser));
+}
+
 /* ---- GObject ---- */
 
 static void
@@ -371,6 +475,7 @@ qv_spectrum_view_class_init (QvSpectrumViewClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvSpectrumView, area);
   gtk_widget_class_bind_template_child (widget_class, QvSpectrumView, none_label);
   gtk_widget_class_bind_template_child (widget_class, QvSpectrumView, hint_label);
+  gtk_widget_class_bind_template_child (widget_class, QvSpectrumView, save_button);
 }
 
 static void
@@ -396,5 +501,6 @@ qv_spectrum_view_init (QvSpectrumView *self)
   g_signal_connect_swapped (self->kind_dropdown, "notify::selected", G_CALLBACK (kind_changed), self);
   g_signal_connect_swapped (self->shape_dropdown, "notify::selected", G_CALLBACK (shape_changed), self);
   g_signal_connect_swapped (self->width_spin, "value-changed", G_CALLBACK (width_changed), self);
+  g_signal_connect_swapped (self->save_button, "clicked", G_CALLBACK (save_clicked), self);
   qv_spectrum_view_set_document (self, NULL);
 }

@@ -41,5 +41,11 @@ void qv_spectrum_view_get_plot_options (QvSpectrumView *self, QvSpectrumPlotOpti
 /* What a click at pixel (@x, @y) of the plot does: the hit mode (−1 for
  * none), after emitting ::mode-activated for it. */
 int qv_spectrum_view_click (QvSpectrumView *self, double x, double y);
+/* Writes the spectrum as shown to @path, the format from its extension:
+ * .csv (the envelope on its grid, src/io/qv-spectrum-table.h), .png or .svg
+ * (the plot at the pane's size, src/render/qv-spectrum-plot.h); atomically,
+ * replacing a file only with @force. */
+gboolean qv_spectrum_view_save (QvSpectrumView *self, const char *path, gboolean force,
+                                GError **error);
 
 G_END_DECLS

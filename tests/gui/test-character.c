@@ -404,6 +404,55 @@ test_spectrum_click (void **state)
     for (gsize i = 0; i < ds->n_sticks; i++)
       assert_float_equal (ds->stick_height[i], demo_in->modes[ds->stick_mode[i]].ir,
                           1e-9 * MAX (1.0, demo_in->modes[ds->stick_mode[i]].ir));
+
+    /* Saving what is shown: the CSV holds the envelope exactly (shortest
+     * round-trip numbers), the PNG has the PNG signature (ISO/IEC 15948),
+     * the SVG is well-formed XML (GMarkup), and nothing is replaced
+     * without being asked. */
+    {
+      QvSpectrumView *sv = qv_window_get_spectrum_view (demo);
+      g_autofree char *dir = g_dir_make_tmp ("qv-spectrum-save-XXXXXX", NULL);
+      g_autofree char *csv = g_build_filename (dir, "ir.csv", NULL);
+      g_autofree char *png = g_build_filename (dir, "ir.png", NULL);
+      g_autofree char *svg = g_build_filename (dir, "ir.svg", NULL);
+      g_autofree char *text = NULL, *png_bytes = NULL, *svg_text = NULL;
+      g_auto(GStrv) lines = NULL;
+      gsize png_length = 0, svg_length = 0;
+      g_autoptr(GMarkupParseContext) parse = NULL;
+      static const GMarkupParser no_callbacks = { 0 };
+
+      assert_true (qv_spectrum_view_save (sv, csv, FALSE, &error));
+      assert_true (g_file_get_contents (csv, &text, NULL, NULL));
+      lines = g_strsplit (text, "\n", -1);
+      assert_true (g_str_has_prefix (lines[0], "wavenumber_cm-1,ir_km_mol_per_cm-1"));
+      assert_int_equal (g_strv_length (lines), ds->n_points + 2);   /* header, rows, "" */
+      for (gsize i = 0; i < ds->n_points; i++)
+        {
+          const char *comma = strchr (lines[i + 1], ',');
+          assert_non_null (comma);
+          assert_true (g_ascii_strtod (comma + 1, NULL) == ds->envelope[i]);
+        }
+      assert_false (qv_spectrum_view_save (sv, csv, FALSE, &error));
+      assert_true (g_error_matches (error, QV_ERROR, QV_ERROR_WRITE));
+      g_clear_error (&error);
+      assert_true (qv_spectrum_view_save (sv, png, FALSE, &error));
+      assert_true (g_file_get_contents (png, &png_bytes, &png_length, NULL));
+      assert_true (png_length > 33 && memcmp (png_bytes, "\x89PNG\r\n\x1a\n", 8) == 0);
+      assert_true (qv_spectrum_view_save (sv, svg, FALSE, &error));
+      assert_true (g_file_get_contents (svg, &svg_text, &svg_length, NULL));
+      parse = g_markup_parse_context_new (&no_callbacks, 0, NULL, NULL);
+      assert_true (g_markup_parse_context_parse (parse, svg_text, (gssize) svg_length, &error));
+      assert_true (g_markup_parse_context_end_parse (parse, &error));
+      {
+        g_autofree char *bmp = g_build_filename (dir, "ir.bmp", NULL);
+        assert_false (qv_spectrum_view_save (sv, bmp, TRUE, &error));
+        assert_true (g_error_matches (error, QV_ERROR, QV_ERROR_USAGE));
+        g_clear_error (&error);
+        assert_false (g_file_test (bmp, G_FILE_TEST_EXISTS));
+      }
+      g_remove (csv); g_remove (png); g_remove (svg);
+      g_rmdir (dir);
+    }
     close_window (demo);
   }
 
