@@ -24,6 +24,8 @@ static const Command commands[] = {
   { "stencil", qv_cmd_stencil, "displaced structures for a Hessian from forces" },
   { "collect", qv_cmd_collect, "assemble the Hessian from a stencil's forces" },
   { "bands", qv_cmd_bands, "phonon dispersion along a path from a supercell Hessian" },
+  { "dos", qv_cmd_dos, "phonon density of states (total, per element) on a q mesh" },
+  { "thermo", qv_cmd_thermo, "thermal properties, U tensors, sound velocities of a crystal" },
   { "frozen-phonon", qv_cmd_frozen, "a supercell displaced along one lattice mode at a commensurate q" },
   { "spectrum", qv_cmd_spectrum, "IR and Raman intensities and the broadened spectrum (CSV, JSON, PNG, SVG)" },
   { "compare", qv_cmd_compare, "overlap and best matching of two mode sets; Duschinsky J and K" },

@@ -51,6 +51,8 @@ int qv_cmd_collect (int argc, char **argv);
 int qv_cmd_displace (int argc, char **argv);
 int qv_cmd_table (int argc, char **argv);
 int qv_cmd_bands (int argc, char **argv);
+int qv_cmd_dos (int argc, char **argv);
+int qv_cmd_thermo (int argc, char **argv);
 int qv_cmd_frozen (int argc, char **argv);
 int qv_cmd_spectrum (int argc, char **argv);
 int qv_cmd_compare (int argc, char **argv);

@@ -1,0 +1,266 @@
+/* qv-cmd-dos.c — `quaver dos`: phonon density of states of a crystal on a
+ * Γ-centred q mesh, total and per element.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <math.h>
+#include <string.h>
+#include "qv-cli.h"
+#include "qv-cli-lattice.h"
+#include "qv-config.h"
+#include "qv-element.h"
+#include "qv-error.h"
+#include "qv-json-writer.h"
+#include "qv-phonon-dos.h"
+#include "qv-phonon-mesh.h"
+#include "qv-units.h"
+
+static const char dos_head[] =
+  "Phonon density of states of a crystal: the force constants of a supercell\n"
+  "are folded onto the PRIMITIVE cell (extended XYZ with Lattice=\"…\") and\n"
+  "D(q) is solved on a Gamma-centred mesh (--mesh NxMxL, default 20x20x20).\n"
+  "\n";
+
+static const char dos_tail[] =
+  "\n"
+  "Methods: tetrahedron (default; the linear tetrahedron method, each grid\n"
+  "value the exact number of states in its bin over the bin width) or\n"
+  "gaussian (each mode a normalised Gaussian of standard deviation --sigma).\n"
+  "The DOS is in states per frequency unit per primitive cell and integrates\n"
+  "to 3n for n atoms in the primitive cell. The partial DOS of an element\n"
+  "weighs each mode by the squared eigenvector on that element's atoms; the\n"
+  "partial DOS add up to the total. Negative frequencies are imaginary modes.\n"
+  "\n"
+  "--unit chooses cm-1 (default), THz or meV for the grid, --sigma, --step,\n"
+  "--min and --max (default range: the modes', padded by 5 sigma).\n"
+  "\n"
+  "Output (--format): text (default; columns frequency, total, one per\n"
+  "element), csv, json (grid, total, partial per element, method, mesh).\n"
+  "\n"
+  "Examples:\n"
+  "  quaver dos prim.xyz --supercell 4x4x4 -H fc.npy -u eV/A^2 --mesh 24x24x24\n"
+  "  quaver dos prim.xyz -S sc.xyz -H sc.hess -u eV/A^2 --method gaussian --sigma 3 -f json -o dos.json\n"
+  "\n"
+  "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.\n"
+  "Harmonic phonons are an approximation: validate them before relying on them.";
+
+typedef enum { FORMAT_TEXT, FORMAT_CSV, FORMAT_JSON } Format;
+
+static void
+append_num (GString *s, double v, const char *format)
+{
+  char buf[G_ASCII_DTOSTR_BUF_SIZE];
+  g_string_append (s, g_ascii_formatd (buf, sizeof buf, format, v + 0.0));
+}
+
+static const char *
+symbol (guint z)
+{
+  const QvElement *e = qv_element_from_z (z);
+  return e ? e->symbol : "X";
+}
+
+int
+qv_cmd_dos (int argc, char **argv)
+{
+  g_autoptr(GOptionContext) context = NULL;
+  g_autoptr(GError) error = NULL;
+  char *mesh_arg = NULL, *method_arg = NULL, *unit_arg = NULL, *format_arg = NULL, *output = NULL;
+  double sigma = -1, step = 0, wmin = 0, wmax = 0;
+  gboolean force = FALSE;
+  QvCliLatticeOptions lo;
+  g_autoptr(QvCliLattice) lattice = NULL;
+  g_autofree char *description = NULL;
+  g_autoptr(QvPhononMesh) mesh = NULL;
+  g_autoptr(QvPhononDos) dos = NULL;
+  g_autoptr(GString) out = NULL;
+  int n[3] = { 20, 20, 20 };
+  QvDosOptions opt = { QV_DOS_TETRAHEDRON, 0, 0, 0, 0 };
+  QvFrequencyUnit unit = QV_FREQUENCY_CM1;
+  Format format = FORMAT_TEXT;
+  QvProgress progress = { qv_cli_progress, NULL };
+  int status = QV_EXIT_OK;
+  double per_cm1;    /* the unit per cm⁻¹ */
+  GOptionEntry entries[] = {
+    { "mesh", 'm', 0, G_OPTION_ARG_STRING, &mesh_arg, "Gamma-centred q mesh NxMxL (default 20x20x20)", "MESH" },
+    { "method", 0, 0, G_OPTION_ARG_STRING, &method_arg, "tetrahedron (default) or gaussian", "METHOD" },
+    { "sigma", 0, 0, G_OPTION_ARG_DOUBLE, &sigma, "Gaussian standard deviation (default 5 cm^-1)", "S" },
+    { "step", 0, 0, G_OPTION_ARG_DOUBLE, &step, "Grid step (default: range / 1000)", "D" },
+    { "min", 0, 0, G_OPTION_ARG_DOUBLE, &wmin, "Lowest frequency of the grid", "W" },
+    { "max", 0, 0, G_OPTION_ARG_DOUBLE, &wmax, "Highest frequency of the grid", "W" },
+    { "unit", 0, 0, G_OPTION_ARG_STRING, &unit_arg, "cm-1 (default), THz or meV", "UNIT" },
+    { "format", 'f', 0, G_OPTION_ARG_STRING, &format_arg, "text (default), csv, json", "FORMAT" },
+    { "output", 'o', 0, G_OPTION_ARG_FILENAME, &output, "Write to FILE instead of standard output", "FILE" },
+    { "force", 0, 0, G_OPTION_ARG_NONE, &force, "Replace an existing output file", NULL },
+    { NULL }
+  };
+
+  g_set_prgname ("quaver dos");
+  context = g_option_context_new ("PRIMITIVE");
+  g_option_context_set_summary (context, "Phonon density of states on a q mesh from a supercell Hessian.");
+  description = g_strconcat (dos_head, qv_cli_lattice_help, dos_tail, NULL);
+  g_option_context_set_description (context, description);
+  qv_cli_lattice_options_init (&lo);
+  qv_cli_lattice_add_entries (context, &lo);
+  g_option_context_add_main_entries (context, entries, NULL);
+  if (!g_option_context_parse (context, &argc, &argv, &error))
+    goto fail;
+  if (argc != 2)
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, argc < 2
+                   ? "dos needs the PRIMITIVE cell (extended XYZ with Lattice=\"…\")"
+                   : "dos takes one PRIMITIVE file, got %d", argc - 1);
+      goto fail;
+    }
+  if ((mesh_arg && !qv_phonon_mesh_parse (mesh_arg, n, &error))
+      || (method_arg && !qv_dos_method_parse (method_arg, &opt.method, &error))
+      || (unit_arg && !qv_frequency_unit_parse (unit_arg, &unit, &error)))
+    goto fail;
+  if (format_arg)
+    {
+      if (g_ascii_strcasecmp (format_arg, "text") == 0)
+        format = FORMAT_TEXT;
+      else if (g_ascii_strcasecmp (format_arg, "csv") == 0)
+        format = FORMAT_CSV;
+      else if (g_ascii_strcasecmp (format_arg, "json") == 0)
+        format = FORMAT_JSON;
+      else
+        {
+          g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                       "unknown format '%s'; accepted: text, csv, json", format_arg);
+          goto fail;
+        }
+    }
+  per_cm1 = qv_frequency_from_wavenumber (1.0, unit);
+  if (sigma != -1 && !(sigma > 0 && isfinite (sigma)))
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, "--sigma must be a positive width in %s",
+                   qv_frequency_unit_name (unit));
+      goto fail;
+    }
+  if (sigma != -1 && opt.method != QV_DOS_GAUSSIAN)
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, "--sigma applies to --method gaussian only");
+      goto fail;
+    }
+  if (step < 0 || !isfinite (step) || ((wmin != 0 || wmax != 0) && !(wmax > wmin)))
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, "%s", step < 0 || !isfinite (step)
+                   ? "--step must be a positive frequency step"
+                   : "--max must be above --min (both in the --unit)");
+      goto fail;
+    }
+  opt.sigma = (sigma == -1 ? 5.0 * per_cm1 : sigma) / per_cm1;
+  opt.step = step / per_cm1;
+  opt.omega_min = wmin / per_cm1;
+  opt.omega_max = wmax / per_cm1;
+
+  lattice = qv_cli_lattice_load ("dos", &lo, argv[1], &error);
+  if (lattice == NULL)
+    goto fail;
+  mesh = qv_phonon_mesh_new (n, &error);
+  if (mesh == NULL)
+    goto fail;
+  dos = qv_phonon_dos_from_force_constants (lattice->fc, lattice->map->z, mesh, &opt,
+                                            (guint) lo.threads, &progress, &error);
+  if (dos == NULL)
+    goto fail;
+
+  if (format == FORMAT_JSON)
+    {
+      QvJsonWriter *w = qv_json_writer_new ();
+      g_autofree double *x = g_new (double, dos->n_points);
+      g_autofree double *y = g_new (double, dos->n_points);
+      double mesh_d[3] = { n[0], n[1], n[2] };
+      g_autofree char *dos_unit = g_strdup_printf ("states per %s per primitive cell",
+                                                   qv_frequency_unit_name (unit));
+      char *doc;
+      qv_json_begin_object (w, NULL);
+      qv_json_string (w, "program", "quaver dos " QV_VERSION);
+      qv_json_string (w, "primitive", argv[1]);
+      qv_json_string (w, "hessian", lo.hessian);
+      qv_json_string (w, "method", qv_dos_method_name (dos->method));
+      if (dos->method == QV_DOS_GAUSSIAN)
+        qv_json_number (w, "sigma", dos->sigma * per_cm1);
+      else
+        qv_json_null (w, "sigma");
+      qv_json_numbers (w, "mesh", mesh_d, 3);
+      qv_json_string (w, "mesh_kind", "Gamma-centred, no symmetry reduction");
+      qv_json_int (w, "n_q", (gint64) mesh->n_q);
+      qv_json_int (w, "n_sites", (gint64) lattice->map->n_primitive);
+      qv_json_number (w, "states_per_cell", 3.0 * lattice->map->n_primitive);
+      qv_json_string (w, "frequency_unit", qv_frequency_unit_name (unit));
+      qv_json_string (w, "dos_unit", dos_unit);
+      qv_json_bool (w, "sum_rule", !lo.no_sum_rule);
+      qv_json_number (w, "step", dos->step * per_cm1);
+      for (gsize b = 0; b < dos->n_points; b++)
+        {
+          x[b] = dos->omega[b] * per_cm1;
+          y[b] = dos->total[b] / per_cm1;
+        }
+      qv_json_numbers (w, "frequency", x, dos->n_points);
+      qv_json_numbers (w, "total", y, dos->n_points);
+      qv_json_begin_object (w, "partial");
+      for (gsize g = 0; g < dos->n_groups; g++)
+        {
+          for (gsize b = 0; b < dos->n_points; b++)
+            y[b] = dos->partial[g * dos->n_points + b] / per_cm1;
+          qv_json_numbers (w, symbol (dos->z[g]), y, dos->n_points);
+        }
+      qv_json_end_object (w);
+      qv_json_end_object (w);
+      doc = qv_json_writer_finish (w);
+      status = qv_cli_emit ("dos", output, doc, force);
+      g_free (doc);
+      goto out;
+    }
+
+  out = g_string_new (NULL);
+  if (format == FORMAT_TEXT)
+    {
+      g_string_append_printf (out, "# quaver dos: %s, %" G_GSIZE_FORMAT " sites, mesh %dx%dx%d "
+                              "(Gamma-centred, %" G_GSIZE_FORMAT " q), method %s", argv[1],
+                              lattice->map->n_primitive, n[0], n[1], n[2], mesh->n_q,
+                              qv_dos_method_name (dos->method));
+      if (dos->method == QV_DOS_GAUSSIAN)
+        {
+          g_string_append (out, ", sigma ");
+          append_num (out, dos->sigma * per_cm1, "%.6g");
+          g_string_append_printf (out, " %s", qv_frequency_unit_name (unit));
+        }
+      g_string_append_printf (out, "\n# DOS: states per %s per primitive cell; integrates to 3n = %"
+                              G_GSIZE_FORMAT "; negative frequencies are imaginary\n",
+                              qv_frequency_unit_name (unit), 3 * lattice->map->n_primitive);
+      g_string_append_printf (out, "# frequency_%s total", qv_frequency_unit_name (unit));
+      for (gsize g = 0; g < dos->n_groups; g++)
+        g_string_append_printf (out, " %s", symbol (dos->z[g]));
+      g_string_append_c (out, '\n');
+    }
+  else
+    {
+      g_string_append_printf (out, "frequency_%s,total", qv_frequency_unit_name (unit));
+      for (gsize g = 0; g < dos->n_groups; g++)
+        g_string_append_printf (out, ",%s", symbol (dos->z[g]));
+      g_string_append_c (out, '\n');
+    }
+  for (gsize b = 0; b < dos->n_points; b++)
+    {
+      const char *sep = format == FORMAT_CSV ? "," : " ";
+      append_num (out, dos->omega[b] * per_cm1, "%.6f");
+      g_string_append (out, sep);
+      append_num (out, dos->total[b] / per_cm1, "%.8e");
+      for (gsize g = 0; g < dos->n_groups; g++)
+        {
+          g_string_append (out, sep);
+          append_num (out, dos->partial[g * dos->n_points + b] / per_cm1, "%.8e");
+        }
+      g_string_append_c (out, '\n');
+    }
+  status = qv_cli_emit ("dos", output, out->str, force);
+  goto out;
+
+fail:
+  status = qv_cli_fail ("dos", error);
+out:
+  qv_cli_lattice_options_clear (&lo);
+  g_free (mesh_arg); g_free (method_arg); g_free (unit_arg); g_free (format_arg); g_free (output);
+  return status;
+}

@@ -1,0 +1,510 @@
+/* qv-cmd-thermo.c — `quaver thermo`: harmonic thermal properties of a
+ * crystal (F, U, S, Cv, ZPE against T) as sums over the modes of a q mesh;
+ * optionally thermal U tensors and sound velocities.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+#include "qv-cli.h"
+#include "qv-cli-lattice.h"
+#include "qv-config.h"
+#include "qv-element.h"
+#include "qv-error.h"
+#include "qv-json-writer.h"
+#include "qv-phonon-mesh.h"
+#include "qv-phonon-thermal.h"
+#include "qv-supercell.h"
+#include "qv-units.h"
+#include "qv-xyz.h"
+
+static const char thermo_head[] =
+  "Harmonic thermal properties of a crystal: the force constants of a\n"
+  "supercell are folded onto the PRIMITIVE cell (extended XYZ with\n"
+  "Lattice=\"…\"), D(q) is solved on a Gamma-centred mesh (--mesh, default\n"
+  "20x20x20) and F, U, S, Cv and the zero-point energy are summed over its\n"
+  "modes (each q weighing 1/N_q; not from a smeared DOS):\n"
+  "  ZPE = sum hbar w/2,   F = sum [hbar w/2 + kT ln(1 - exp(-hbar w/kT))],\n"
+  "  S = sum k [x/(e^x - 1) - ln(1 - e^-x)],  Cv = sum k x^2 e^x/(e^x - 1)^2,\n"
+  "  U = F + TS, x = hbar w/kT.\n"
+  "The three acoustic modes at Gamma are left out; imaginary modes are\n"
+  "counted, left out and reported.\n"
+  "Units: per mole of formula units (kJ/mol, J/(K mol); the formula unit is\n"
+  "the primitive cell's composition divided by the greatest common divisor of\n"
+  "its element counts) and per primitive cell (eV, meV/K).\n"
+  "A molecule (no cell) is refused: gas-phase thermochemistry of molecules is\n"
+  "not in this version.\n"
+  "\n";
+
+static const char thermo_tail[] =
+  "\n"
+  "--adp adds the thermal mean-square displacement tensors (U_ij, A^2, the\n"
+  "crystallographers' anisotropic displacement parameters) of every atom of\n"
+  "the primitive cell at each T:\n"
+  "  U_k = sum hbar/(2 N_q m_k w) coth(hbar w/2kT) Re[e_k e_k^+].\n"
+  "--sound \"1 0 0; 1 1 0\" adds the sound velocities (m/s) of the three\n"
+  "acoustic branches along each direction, given in fractional reciprocal\n"
+  "coordinates (q = h b1 + k b2 + l b3) or, with --cartesian, as Cartesian\n"
+  "vectors; from omega/|q| at |q| = 0.001 and 0.002 1/A, extrapolated to q = 0,\n"
+  "with the departure from linearity reported.\n"
+  "\n"
+  "Output (--format): text (default), csv (no --sound), json (T, F, U, S,\n"
+  "Cv, ZPE with their units, counts of modes left out, U tensors, sound).\n"
+  "\n"
+  "Examples:\n"
+  "  quaver thermo prim.xyz --supercell 4x4x4 -H fc.npy -u eV/A^2 --t-max 1000 --t-step 50\n"
+  "  quaver thermo prim.xyz -S sc.xyz -H sc.hess -u eV/A^2 --adp --sound \"1 0 0; 1 1 1\" -f json\n"
+  "\n"
+  "Exit status: 0 success, 1 usage error (also for a molecule), 2 bad input,\n"
+  "3 output not written.\n"
+  "Harmonic phonons are an approximation: validate them before relying on them.";
+
+typedef enum { FORMAT_TEXT, FORMAT_CSV, FORMAT_JSON } Format;
+
+static void
+append_num (GString *s, double v, const char *format)
+{
+  char buf[G_ASCII_DTOSTR_BUF_SIZE];
+  g_string_append (s, g_ascii_formatd (buf, sizeof buf, format, v + 0.0));
+}
+
+static const char *
+symbol (guint z)
+{
+  const QvElement *e = qv_element_from_z (z);
+  return e ? e->symbol : "X";
+}
+
+/* A molecule: a bundle, or a geometry without a cell. Unreadable files are
+ * left to the lattice input, which reports them. */
+static gboolean
+is_molecule (const char *path)
+{
+  g_autoptr(GPtrArray) frames = NULL;
+  if (g_str_has_suffix (path, ".json"))
+    return TRUE;
+  if (g_str_has_suffix (path, ".cif") || g_str_has_suffix (path, ".CIF"))
+    return FALSE;
+  frames = qv_xyz_read_file (path, NULL);
+  return frames && frames->len > 0 && !((QvStructure *) g_ptr_array_index (frames, 0))->has_cell;
+}
+
+static char *
+formula (gsize n, const guint *z, gsize units)
+{
+  GString *s = g_string_new (NULL);
+  for (gsize i = 0; i < n; i++)
+    {
+      gsize count = 0;
+      gboolean seen = FALSE;
+      for (gsize j = 0; j < i; j++)
+        seen |= z[j] == z[i];
+      if (seen)
+        continue;
+      for (gsize j = 0; j < n; j++)
+        count += z[j] == z[i];
+      g_string_append (s, symbol (z[i]));
+      if (count / units > 1)
+        g_string_append_printf (s, "%" G_GSIZE_FORMAT, count / units);
+    }
+  return g_string_free (s, FALSE);
+}
+
+/* "h k l; h k l" → 3 n doubles */
+static double *
+parse_directions (const char *text, gsize *n, GError **error)
+{
+  g_auto(GStrv) items = g_strsplit (text, ";", -1);
+  GArray *out = g_array_new (FALSE, FALSE, sizeof (double));
+  for (guint i = 0; items[i]; i++)
+    {
+      g_auto(GStrv) parts = NULL;
+      double v[3];
+      guint k = 0;
+      char *item = g_strstrip (items[i]);
+      if (*item == '\0')
+        continue;
+      parts = g_strsplit_set (item, " \t,", -1);
+      for (guint j = 0; parts[j]; j++)
+        {
+          char *end;
+          if (*parts[j] == '\0')
+            continue;
+          if (k == 3)
+            goto bad;
+          v[k++] = g_ascii_strtod (parts[j], &end);
+          if (*end != '\0' || !isfinite (v[k - 1]))
+            goto bad;
+        }
+      if (k != 3 || (v[0] == 0 && v[1] == 0 && v[2] == 0))
+        goto bad;
+      g_array_append_vals (out, v, 3);
+      continue;
+    bad:
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
+                   "--sound: direction '%s' not understood; write three numbers, not all zero, "
+                   "directions separated by ';' (\"1 0 0; 1 1 0\")", item);
+      g_array_free (out, TRUE);
+      return NULL;
+    }
+  if (out->len == 0)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "--sound needs at least one direction (\"1 0 0\")");
+      g_array_free (out, TRUE);
+      return NULL;
+    }
+  *n = out->len / 3;
+  return (double *) g_array_free (out, FALSE);
+}
+
+typedef struct {
+  gboolean ok;
+  gboolean failed;
+  char *message;
+  QvSoundVelocity v;
+  double given[3];
+} Sound;
+
+int
+qv_cmd_thermo (int argc, char **argv)
+{
+  g_autoptr(GOptionContext) context = NULL;
+  g_autoptr(GError) error = NULL;
+  char *mesh_arg = NULL, *format_arg = NULL, *output = NULL, *sound_arg = NULL;
+  double t_min = 0, t_max = 1000, t_step = 50;
+  gboolean force = FALSE, adp = FALSE, cartesian = FALSE;
+  QvCliLatticeOptions lo;
+  g_autoptr(QvCliLattice) lattice = NULL;
+  g_autofree char *description = NULL, *formula_text = NULL;
+  g_autoptr(QvPhononMesh) mesh = NULL;
+  g_autoptr(QvPhononSet) set = NULL;
+  g_autoptr(QvThermal) th = NULL;
+  g_autoptr(GString) out = NULL;
+  g_autofree double *t = NULL, *u = NULL, *dirs = NULL;
+  g_autofree Sound *sound = NULL;
+  gsize n_t, n_dirs = 0, n_sites, z_units;
+  int n[3] = { 20, 20, 20 };
+  Format format = FORMAT_TEXT;
+  QvProgress progress = { qv_cli_progress, NULL };
+  int status = QV_EXIT_OK;
+  double per_mol, kj = 0;
+  GOptionEntry entries[] = {
+    { "mesh", 'm', 0, G_OPTION_ARG_STRING, &mesh_arg, "Gamma-centred q mesh NxMxL (default 20x20x20)", "MESH" },
+    { "t-min", 0, 0, G_OPTION_ARG_DOUBLE, &t_min, "Lowest temperature, K (default 0)", "T" },
+    { "t-max", 0, 0, G_OPTION_ARG_DOUBLE, &t_max, "Highest temperature, K (default 1000)", "T" },
+    { "t-step", 0, 0, G_OPTION_ARG_DOUBLE, &t_step, "Temperature step, K (default 50)", "D" },
+    { "adp", 0, 0, G_OPTION_ARG_NONE, &adp, "Add the U tensors (A^2) of every atom", NULL },
+    { "sound", 0, 0, G_OPTION_ARG_STRING, &sound_arg, "Sound velocities along \"h k l; …\"", "DIRS" },
+    { "cartesian", 0, 0, G_OPTION_ARG_NONE, &cartesian, "--sound directions are Cartesian", NULL },
+    { "format", 'f', 0, G_OPTION_ARG_STRING, &format_arg, "text (default), csv, json", "FORMAT" },
+    { "output", 'o', 0, G_OPTION_ARG_FILENAME, &output, "Write to FILE instead of standard output", "FILE" },
+    { "force", 0, 0, G_OPTION_ARG_NONE, &force, "Replace an existing output file", NULL },
+    { NULL }
+  };
+
+  g_set_prgname ("quaver thermo");
+  context = g_option_context_new ("PRIMITIVE");
+  g_option_context_set_summary (context, "Harmonic thermal properties of a crystal from a supercell Hessian.");
+  description = g_strconcat (thermo_head, qv_cli_lattice_help, thermo_tail, NULL);
+  g_option_context_set_description (context, description);
+  qv_cli_lattice_options_init (&lo);
+  qv_cli_lattice_add_entries (context, &lo);
+  g_option_context_add_main_entries (context, entries, NULL);
+  if (!g_option_context_parse (context, &argc, &argv, &error))
+    goto fail;
+  if (argc != 2)
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, argc < 2
+                   ? "thermo needs the PRIMITIVE cell (extended XYZ with Lattice=\"…\")"
+                   : "thermo takes one PRIMITIVE file, got %d", argc - 1);
+      goto fail;
+    }
+  if (is_molecule (argv[1]))
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                   "%s is a molecule (no cell): gas-phase thermochemistry of molecules is not in "
+                   "this version of quaver; 'thermo' computes crystals (extended XYZ with "
+                   "Lattice=\"…\" and a supercell Hessian)", argv[1]);
+      goto fail;
+    }
+  if (mesh_arg && !qv_phonon_mesh_parse (mesh_arg, n, &error))
+    goto fail;
+  if (format_arg)
+    {
+      if (g_ascii_strcasecmp (format_arg, "text") == 0)
+        format = FORMAT_TEXT;
+      else if (g_ascii_strcasecmp (format_arg, "csv") == 0)
+        format = FORMAT_CSV;
+      else if (g_ascii_strcasecmp (format_arg, "json") == 0)
+        format = FORMAT_JSON;
+      else
+        {
+          g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                       "unknown format '%s'; accepted: text, csv, json", format_arg);
+          goto fail;
+        }
+    }
+  if (!(t_min >= 0 && t_max >= t_min && t_max <= 1e5 && t_step > 0 && (t_max - t_min) / t_step <= 100000))
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                   "temperatures: need 0 <= --t-min <= --t-max <= 100000 K and a positive --t-step "
+                   "giving at most 100000 temperatures (got %g, %g, %g)", t_min, t_max, t_step);
+      goto fail;
+    }
+  if (sound_arg && format == FORMAT_CSV)
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                   "--sound is not a column of the temperature table: use --format text or json");
+      goto fail;
+    }
+  if (cartesian && !sound_arg)
+    {
+      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, "--cartesian applies to --sound directions");
+      goto fail;
+    }
+  if (sound_arg && !(dirs = parse_directions (sound_arg, &n_dirs, &error)))
+    goto fail;
+  n_t = (gsize) floor ((t_max - t_min) / t_step + 1e-9) + 1;
+  t = g_new (double, n_t);
+  for (gsize i = 0; i < n_t; i++)
+    t[i] = t_min + (double) i * t_step;
+
+  lattice = qv_cli_lattice_load ("thermo", &lo, argv[1], &error);
+  if (lattice == NULL)
+    goto fail;
+  n_sites = lattice->map->n_primitive;
+  mesh = qv_phonon_mesh_new (n, &error);
+  if (mesh == NULL)
+    goto fail;
+  set = qv_dynamical_matrix_solve (lattice->fc, mesh->q, mesh->n_q, FALSE, (guint) lo.threads,
+                                   &progress, &error);
+  if (set == NULL)
+    goto fail;
+  th = qv_thermal_compute (mesh->n_q, set->n_branches, mesh->q, set->wavenumbers, TRUE, t, n_t);
+  if (th->n_imaginary > 0)
+    g_printerr ("quaver: warning: %" G_GSIZE_FORMAT " of the %" G_GSIZE_FORMAT " mesh modes are "
+                "imaginary (down to %.2f cm^-1) and are left out of the sums: the structure is not "
+                "at a minimum, or the force constants are not converged\n", th->n_imaginary,
+                mesh->n_q * set->n_branches, th->most_imaginary);
+  if (adp)
+    {
+      u = qv_thermal_displacements (lattice->fc, mesh, t, n_t, TRUE, (guint) lo.threads, &progress, &error);
+      if (u == NULL)
+        goto fail;
+    }
+  if (n_dirs)
+    {
+      const double (*cell)[3] = qv_force_constants_cell (lattice->fc);
+      double recip[3][3];
+      qv_lattice_reciprocal (cell, recip);
+      sound = g_new0 (Sound, n_dirs);
+      for (gsize d = 0; d < n_dirs; d++)
+        {
+          double c[3] = { 0, 0, 0 };
+          g_autoptr(GError) local = NULL;
+          memcpy (sound[d].given, dirs + 3 * d, sizeof sound[d].given);
+          for (int x = 0; x < 3; x++)
+            c[x] = cartesian ? dirs[3 * d + x]
+                             : dirs[3 * d] * recip[0][x] + dirs[3 * d + 1] * recip[1][x]
+                               + dirs[3 * d + 2] * recip[2][x];
+          sound[d].ok = qv_sound_velocity (lattice->fc, c, 0, &sound[d].v, &local);
+          if (!sound[d].ok)
+            {
+              g_printerr ("quaver: warning: no sound velocity along (%g %g %g): %s\n",
+                          dirs[3 * d], dirs[3 * d + 1], dirs[3 * d + 2], local->message);
+              sound[d].message = g_strdup (local->message);
+            }
+          else if (MAX (sound[d].v.linearity[0], MAX (sound[d].v.linearity[1], sound[d].v.linearity[2])) > 1e-3)
+            g_printerr ("quaver: warning: along (%g %g %g) omega/q changes by more than 0.1 %% "
+                        "between |q| = 0.001 and 0.002 1/A: the acoustic branches are not linear "
+                        "there (soft or crossing branches)\n", dirs[3 * d], dirs[3 * d + 1], dirs[3 * d + 2]);
+        }
+    }
+  z_units = qv_thermal_formula_units (n_sites, lattice->map->z);
+  formula_text = formula (n_sites, lattice->map->z, z_units);
+  per_mol = qv_thermal_kj_per_mol (z_units);   /* eV/cell → kJ/mol */
+  kj = per_mol;
+
+  if (format == FORMAT_JSON)
+    {
+      QvJsonWriter *w = qv_json_writer_new ();
+      g_autofree double *col = g_new (double, n_t);
+      double mesh_d[3] = { n[0], n[1], n[2] };
+      char *doc;
+      struct { const char *key; const double *v; double f; } cols[] = {
+        { "F", th->free_energy, kj }, { "U", th->energy, kj }, { "S", th->entropy, kj * 1000 },
+        { "Cv", th->heat_capacity, kj * 1000 }, { "ZPE", th->zpe, kj },
+      };
+      qv_json_begin_object (w, NULL);
+      qv_json_string (w, "program", "quaver thermo " QV_VERSION);
+      qv_json_string (w, "primitive", argv[1]);
+      qv_json_string (w, "hessian", lo.hessian);
+      qv_json_numbers (w, "mesh", mesh_d, 3);
+      qv_json_string (w, "mesh_kind", "Gamma-centred, no symmetry reduction");
+      qv_json_int (w, "n_q", (gint64) mesh->n_q);
+      qv_json_int (w, "n_sites", (gint64) n_sites);
+      qv_json_string (w, "formula_unit", formula_text);
+      qv_json_int (w, "formula_units_per_cell", (gint64) z_units);
+      qv_json_bool (w, "sum_rule", !lo.no_sum_rule);
+      qv_json_int (w, "modes_summed", (gint64) th->n_modes);
+      qv_json_int (w, "gamma_acoustic_left_out", (gint64) th->n_gamma_skipped);
+      qv_json_int (w, "imaginary_left_out", (gint64) th->n_imaginary);
+      qv_json_int (w, "zero_left_out", (gint64) th->n_zero);
+      qv_json_number (w, "most_imaginary_cm-1", th->most_imaginary);
+      qv_json_begin_object (w, "units");
+      qv_json_string (w, "T", "K");
+      qv_json_string (w, "F", "kJ/mol (per mole of formula units)");
+      qv_json_string (w, "U", "kJ/mol (per mole of formula units)");
+      qv_json_string (w, "ZPE", "kJ/mol (per mole of formula units)");
+      qv_json_string (w, "S", "J/(K mol) (per mole of formula units)");
+      qv_json_string (w, "Cv", "J/(K mol) (per mole of formula units)");
+      qv_json_string (w, "per_cell", "eV for F, U, ZPE and eV/K for S, Cv, per primitive cell");
+      qv_json_string (w, "adp", "angstrom^2, Cartesian U_ij");
+      qv_json_string (w, "sound", "m/s");
+      qv_json_end_object (w);
+      qv_json_numbers (w, "T", t, n_t);
+      for (gsize c = 0; c < G_N_ELEMENTS (cols); c++)
+        {
+          for (gsize i = 0; i < n_t; i++)
+            col[i] = cols[c].v[i] * cols[c].f;
+          qv_json_numbers (w, cols[c].key, col, n_t);
+        }
+      qv_json_begin_object (w, "per_cell");
+      for (gsize c = 0; c < G_N_ELEMENTS (cols); c++)
+        qv_json_numbers (w, cols[c].key, cols[c].v, n_t);
+      qv_json_end_object (w);
+      if (u)
+        {
+          qv_json_begin_array (w, "adp");
+          for (gsize s = 0; s < n_sites; s++)
+            {
+              qv_json_begin_object (w, NULL);
+              qv_json_int (w, "site", (gint64) s + 1);
+              qv_json_string (w, "element", symbol (lattice->map->z[s]));
+              qv_json_begin_array (w, "U");
+              for (gsize i = 0; i < n_t; i++)
+                qv_json_numbers (w, NULL, u + (i * n_sites + s) * 9, 9);
+              qv_json_end_array (w);
+              for (gsize i = 0; i < n_t; i++)
+                {
+                  const double *m = u + (i * n_sites + s) * 9;
+                  col[i] = (m[0] + m[4] + m[8]) / 3;
+                }
+              qv_json_numbers (w, "U_iso", col, n_t);
+              qv_json_end_object (w);
+            }
+          qv_json_end_array (w);
+        }
+      if (sound)
+        {
+          qv_json_begin_array (w, "sound");
+          for (gsize d = 0; d < n_dirs; d++)
+            {
+              qv_json_begin_object (w, NULL);
+              qv_json_numbers (w, "direction", sound[d].given, 3);
+              qv_json_string (w, "direction_kind", cartesian ? "cartesian" : "fractional reciprocal");
+              if (sound[d].ok)
+                {
+                  qv_json_numbers (w, "cartesian_unit", sound[d].v.direction, 3);
+                  qv_json_numbers (w, "velocity", sound[d].v.velocity, 3);
+                  qv_json_numbers (w, "linearity", sound[d].v.linearity, 3);
+                  qv_json_numbers (w, "longitudinal_fraction", sound[d].v.longitudinal, 3);
+                }
+              else
+                qv_json_string (w, "error", sound[d].message);
+              qv_json_end_object (w);
+            }
+          qv_json_end_array (w);
+        }
+      qv_json_end_object (w);
+      doc = qv_json_writer_finish (w);
+      status = qv_cli_emit ("thermo", output, doc, force);
+      g_free (doc);
+      goto out;
+    }
+
+  out = g_string_new (NULL);
+  if (format == FORMAT_TEXT)
+    {
+      g_string_append_printf (out, "# quaver thermo: %s, %" G_GSIZE_FORMAT " sites, formula unit %s "
+                              "(%" G_GSIZE_FORMAT " per cell), mesh %dx%dx%d (Gamma-centred, %"
+                              G_GSIZE_FORMAT " q)\n", argv[1], n_sites, formula_text, z_units,
+                              n[0], n[1], n[2], mesh->n_q);
+      g_string_append_printf (out, "# modes summed %" G_GSIZE_FORMAT "; left out: %" G_GSIZE_FORMAT
+                              " acoustic at Gamma, %" G_GSIZE_FORMAT " imaginary, %" G_GSIZE_FORMAT " zero\n",
+                              th->n_modes, th->n_gamma_skipped, th->n_imaginary, th->n_zero);
+      g_string_append (out, "# per mole of formula units: F, U, ZPE in kJ/mol; S, Cv in J/(K mol). "
+                            "Per primitive cell: F, U, ZPE in eV; S, Cv in meV/K\n");
+      for (gsize d = 0; d < n_dirs; d++)
+        {
+          g_string_append_printf (out, "# sound along (%g %g %g)%s: ", sound[d].given[0], sound[d].given[1],
+                                  sound[d].given[2], cartesian ? " Cartesian" : "");
+          if (!sound[d].ok)
+            g_string_append_printf (out, "none (%s)\n", sound[d].message);
+          else
+            {
+              for (int b = 0; b < 3; b++)
+                {
+                  append_num (out, sound[d].v.velocity[b], "%.1f");
+                  g_string_append (out, b < 2 ? " " : " m/s; longitudinal fraction");
+                }
+              for (int b = 0; b < 3; b++)
+                {
+                  g_string_append_c (out, ' ');
+                  append_num (out, sound[d].v.longitudinal[b], "%.3f");
+                }
+              g_string_append_c (out, '\n');
+            }
+        }
+      g_string_append (out, "# T_K F_kJ/mol U_kJ/mol S_J/(K.mol) Cv_J/(K.mol) ZPE_kJ/mol F_eV/cell "
+                            "U_eV/cell S_meV/(K.cell) Cv_meV/(K.cell)");
+    }
+  else
+    g_string_append (out, "T_K,F_kJ/mol,U_kJ/mol,S_J/(K.mol),Cv_J/(K.mol),ZPE_kJ/mol,F_eV/cell,"
+                          "U_eV/cell,S_meV/(K.cell),Cv_meV/(K.cell)");
+  if (u)
+    for (gsize s = 0; s < n_sites; s++)
+      {
+        static const char *names[] = { "U11", "U22", "U33", "U12", "U13", "U23" };
+        for (int c = 0; c < 6; c++)
+          g_string_append_printf (out, "%s%s_%s%" G_GSIZE_FORMAT "_A^2", format == FORMAT_CSV ? "," : " ",
+                                  names[c], symbol (lattice->map->z[s]), s + 1);
+      }
+  g_string_append_c (out, '\n');
+  for (gsize i = 0; i < n_t; i++)
+    {
+      const char *sep = format == FORMAT_CSV ? "," : " ";
+      double row[10] = { t[i], th->free_energy[i] * kj, th->energy[i] * kj, th->entropy[i] * kj * 1000,
+                         th->heat_capacity[i] * kj * 1000, th->zpe[i] * kj, th->free_energy[i],
+                         th->energy[i], th->entropy[i] * 1000, th->heat_capacity[i] * 1000 };
+      for (int c = 0; c < 10; c++)
+        {
+          if (c)
+            g_string_append (out, sep);
+          append_num (out, row[c], c == 0 ? "%.4f" : "%.8g");
+        }
+      if (u)
+        for (gsize s = 0; s < n_sites; s++)
+          {
+            const double *m = u + (i * n_sites + s) * 9;
+            const double v[6] = { m[0], m[4], m[8], m[1], m[2], m[5] };
+            for (int c = 0; c < 6; c++)
+              {
+                g_string_append (out, sep);
+                append_num (out, v[c], "%.8g");
+              }
+          }
+      g_string_append_c (out, '\n');
+    }
+  status = qv_cli_emit ("thermo", output, out->str, force);
+  goto out;
+
+fail:
+  status = qv_cli_fail ("thermo", error);
+out:
+  if (sound)
+    for (gsize d = 0; d < n_dirs; d++)
+      g_free (sound[d].message);
+  qv_cli_lattice_options_clear (&lo);
+  g_free (mesh_arg); g_free (format_arg); g_free (output); g_free (sound_arg);
+  return status;
+}
