@@ -1,5 +1,6 @@
 /* qv-born-file.h — Born effective charges and the high-frequency dielectric
- * tensor of a crystal as a small text file (docs/formats.md, "Born charges").
+ * tensor of a crystal as a small text file (docs/methods.md, "Non-analytic
+ * correction").
  *
  *   # comments after '#'; blank lines are ignored
  *   dielectric            9 numbers follow: ε∞ row by row (relative, no unit)
