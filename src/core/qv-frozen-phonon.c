@@ -68,7 +68,7 @@ qv_frozen_phonon_new (const QvForceConstants *fc, const QvSupercellMap *map,
   const double (*cell)[3] = qv_force_constants_cell (fc);
   g_autoptr(QvPhononSet) set = NULL;
   g_autoptr(QvFrozenPhonon) fp = NULL;
-  double qc[3], big = 0, scale;
+  double qc[3], big = 0, norm2 = 0, scale;
 
   if (map->n_primitive != n || supercell->n_atoms != map->n_atoms)
     {
@@ -130,20 +130,24 @@ qv_frozen_phonon_new (const QvForceConstants *fc, const QvSupercellMap *map,
             len += u * u;
           }
         big = MAX (big, sqrt (len));
+        norm2 += map->masses[k] * len;
       }
   }
+  /* Σ m |u|² for A = 1 is ½ at q ≢ −q; at q ≡ −q it is cos²(φ + θ) with
+   * θ fixed by the eigenvector's phase, and may vanish */
+  if (!(norm2 > 1e-10))
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
+                   "branch %" G_GSIZE_FORMAT " at q = (%g %g %g) moves no atom at phase %g rad: "
+                   "at a q equal to -q the pattern is real only up to a phase; add 90 degrees "
+                   "to the phase", request->branch + 1, request->q[0], request->q[1],
+                   request->q[2], request->phase);
+      return NULL;
+    }
   if (request->unit == QV_FROZEN_Q)
     scale = request->amplitude;
   else
-    {
-      if (!(big > 0))
-        {
-          g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
-                       "this mode moves no atom at phase %g: choose another phase", request->phase);
-          return NULL;
-        }
-      scale = request->amplitude / big;
-    }
+    scale = request->amplitude / big;
   fp->a = scale;
   fp->largest = big * scale;
   fp->structure = qv_structure_copy (supercell);

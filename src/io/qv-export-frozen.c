@@ -19,7 +19,7 @@ frozen_produce (QvExport *e, gsize file, GString *text, const QvProgress *progre
                 GError **error)
 {
   QvXyzPair pairs[G_N_ELEMENTS (frozen_keys) + 1];
-  g_autofree char *values[G_N_ELEMENTS (frozen_keys)] = { NULL };
+  char *values[G_N_ELEMENTS (frozen_keys)] = { NULL };
   QvXyzFrame frame = { .style = QV_XYZ_EXTENDED, .precision = QV_XYZ_EXACT, .masses = TRUE };
   gsize n = 0;
 
@@ -46,6 +46,8 @@ frozen_produce (QvExport *e, gsize file, GString *text, const QvProgress *progre
   frame.pairs = pairs;
   frame.n_pairs = n;
   qv_xyz_append_frame (text, e->structure, &frame);
+  for (gsize k = 0; k < G_N_ELEMENTS (frozen_keys); k++)
+    g_free (values[k]);
   return TRUE;
 }
 

@@ -113,15 +113,28 @@ def main():
                  "-o", out2], expect=1)
         check("not commensurate" in p.stderr, "message: %s" % p.stderr)
         check(not os.path.exists(os.path.join(out2, "manifest.json")), "nothing written")
-        # another cell for the pattern: 2x1x1 at q = (1/2, 0, 0) (q = -q: no standing-wave note)
+        # another cell for the pattern: 2x1x1 at q = (1/2, 0, 0) (q = -q: no
+        # standing-wave note). There the pattern is a fixed real one times
+        # cos(phase + theta): at phase 0 this branch's pattern vanishes and
+        # is refused, at 90 degrees it is whole
+        base = [prim, "-S", sc_xyz, "-H", hess, "-u", "eV/A^2", "--q", "0.5 0 0", "--branch", "6",
+                "--cell", "2x1x1", "--normal-coordinate", "0.2"]
+        p = run(base + ["-o", os.path.join(tmp, "out0")], expect=1)
+        check("moves no atom" in p.stderr, "vanishing pattern refused: %s" % p.stderr)
         out3 = os.path.join(tmp, "out3")
-        p = run([prim, "-S", sc_xyz, "-H", hess, "-u", "eV/A^2", "--q", "0.5 0 0", "--branch", "6",
-                 "--cell", "2x1x1", "--normal-coordinate", "0.2", "-o", out3])
+        p = run(base + ["--phase", "90", "-o", out3])
         if p.returncode == 0:
             with open(os.path.join(out3, "manifest.json")) as f:
                 man = json.load(f)
-            check(man["n_atoms"] == 4 if "n_atoms" in man else True, "4 atoms")
             check(man["parameters"]["standing_wave"] is False, "q = -q is no standing wave")
+            _, got = read_xyz(os.path.join(out3, "frozen-phonon.xyz"))
+            check(len(got) == 4, "2x1x1 has 4 atoms")
+            ref = np.array([np.array([n, 0, 0]) @ model.CELL + model.TAU[k] for n in range(2) for k in range(2)])
+            u = got - ref
+            mw = np.sum(np.repeat(model.MASSES[None, :], 2, axis=0).ravel()[:, None] * u * u)
+            # at q = -q the whole normal coordinate is in the pattern: sum m u^2 = A^2
+            print("q = -q pattern: sum m u^2 = %.12g (A^2 = 0.04)" % mw)
+            check(abs(mw - 0.04) < 1e-9, "sum m u^2 %.12g" % mw)
 
     if failures:
         print("%d check(s) failed" % len(failures))
