@@ -1598,6 +1598,102 @@ read_derivatives (Reader *r, JsonObject *root, QvBundle *bundle)
   return TRUE;
 }
 
+/* --- Born charges and the dielectric tensor ------------------------------ */
+
+/* {"units": @unit, "data": [[3 numbers] × 3]} into @out (9, row-major). */
+static gboolean
+read_matrix3 (Reader *r, JsonNode *node, const char *path, const char *unit, double *out)
+{
+  static const char *const keys[] = { "units", "data", NULL };
+  g_autofree char *units_path = path_key (path, "units"), *data_path = path_key (path, "data");
+  JsonObject *object = read_object (r, node, path);
+  JsonArray *rows;
+  const char *units;
+  JsonNode *m;
+
+  if (object == NULL || !check_keys (r, object, path, keys))
+    return FALSE;
+  if ((m = member (object, "units")) == NULL)
+    return fail_at (r, AT_MISSING, path, "units", "missing; the unit must be stated (\"%s\")", unit);
+  if (!read_string (r, m, units_path, &units))
+    return FALSE;
+  if (strcmp (units, unit) != 0)
+    return fail (r, units_path, "expected \"%s\", found \"%s\"", unit, units);
+  if ((m = member (object, "data")) == NULL)
+    return fail_at (r, AT_MISSING, path, "data", "missing; give 3 rows of 3 numbers");
+  if ((rows = read_array (r, m, data_path, TRUE, "rows", "row")) == NULL)
+    return FALSE;
+  if (json_array_get_length (rows) != 3)
+    return fail (r, data_path, "expected 3 rows of 3 numbers, found %u rows",
+                 json_array_get_length (rows));
+  for (guint i = 0; i < 3; i++)
+    {
+      g_autofree char *where = path_index (data_path, i);
+      if (!read_numbers (r, json_array_get_element (rows, i), where, 3, "", out + 3 * i))
+        return FALSE;
+    }
+  return TRUE;
+}
+
+static gboolean
+read_born (Reader *r, JsonObject *root, QvBundle *bundle)
+{
+  static const char *const keys[] = { "units", "data", NULL };
+  JsonNode *born = member (root, "born_charges"), *eps = member (root, "dielectric_tensor"), *m;
+  const gsize n_atoms = bundle->structure->n_atoms;
+  JsonObject *object;
+  JsonArray *atoms;
+  const char *units;
+
+  if (born == NULL && eps == NULL)
+    return TRUE;
+  if (born == NULL || eps == NULL)
+    return fail_at (r, AT_MISSING, NULL, born ? "dielectric_tensor" : "born_charges",
+                    "missing; the non-analytic correction needs both \"born_charges\" and "
+                    "\"dielectric_tensor\"");
+  if (!read_matrix3 (r, eps, "dielectric_tensor", "relative", &bundle->dielectric_tensor[0][0]))
+    return FALSE;
+  bundle->has_dielectric = TRUE;
+  if ((object = read_object (r, born, "born_charges")) == NULL
+      || !check_keys (r, object, "born_charges", keys))
+    return FALSE;
+  if ((m = member (object, "units")) == NULL)
+    return fail_at (r, AT_MISSING, "born_charges", "units", "missing; the unit must be stated (\"e\")");
+  if (!read_string (r, m, "born_charges.units", &units))
+    return FALSE;
+  if (strcmp (units, "e") != 0)
+    return fail (r, "born_charges.units", "expected \"e\" (the elementary charge), found \"%s\"",
+                 units);
+  if ((m = member (object, "data")) == NULL)
+    return fail_at (r, AT_MISSING, "born_charges", "data",
+                    "missing; give one 3x3 tensor per atom (%" G_GSIZE_FORMAT ")", n_atoms);
+  if ((atoms = read_array (r, m, "born_charges.data", TRUE, "tensors", "tensor")) == NULL)
+    return FALSE;
+  if (json_array_get_length (atoms) != n_atoms)
+    return fail (r, "born_charges.data", "expected one 3x3 tensor per atom (%" G_GSIZE_FORMAT
+                 "), found %u", n_atoms, json_array_get_length (atoms));
+  bundle->born_charges = g_new (double, 9 * n_atoms);
+  for (gsize a = 0; a < n_atoms; a++)
+    {
+      g_autofree char *where = path_index ("born_charges.data", a);
+      JsonArray *rows = read_array (r, json_array_get_element (atoms, (guint) a), where, TRUE,
+                                    "rows", "row");
+      if (rows == NULL)
+        return FALSE;
+      if (json_array_get_length (rows) != 3)
+        return fail (r, where, "expected 3 rows of 3 numbers, found %u rows",
+                     json_array_get_length (rows));
+      for (guint i = 0; i < 3; i++)
+        {
+          g_autofree char *row = path_index (where, i);
+          if (!read_numbers (r, json_array_get_element (rows, i), row, 3, "",
+                             bundle->born_charges + 9 * a + 3 * i))
+            return FALSE;
+        }
+    }
+  return TRUE;
+}
+
 /* --- the bundle ---------------------------------------------------------- */
 
 static gboolean
@@ -1691,6 +1787,8 @@ read_bundle (Reader *r, JsonNode *root_node)
     return NULL;
   if (!read_derivatives (r, root, bundle))
     return NULL;
+  if (!read_born (r, root, bundle))
+    return NULL;
   if (bundle->view.mode > 3 * bundle->structure->n_atoms)
     {
       fail (r, "view.mode", "mode %u does not exist: %" G_GSIZE_FORMAT " atoms have at most %"
@@ -1773,5 +1871,6 @@ qv_bundle_free (QvBundle *bundle)
   qv_derivatives_free (bundle->derivatives);
   g_free (bundle->dipole_units);
   g_free (bundle->polarizability_units);
+  g_free (bundle->born_charges);
   g_free (bundle);
 }

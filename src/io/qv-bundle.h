@@ -42,6 +42,13 @@ typedef struct {
   QvDerivatives *derivatives;
   char *dipole_units;
   char *polarizability_units;
+  /* "born_charges" and "dielectric_tensor" (optional, both or neither): the
+   * Born effective charges Z*[field][displacement] of every atom (9 per
+   * atom, units of e) and ε∞ (relative), for the non-analytic correction
+   * of polar crystals (qv-nonanalytic.h); NULL / FALSE when absent. */
+  double *born_charges;
+  gboolean has_dielectric;
+  double dielectric_tensor[3][3];
 } QvBundle;
 
 /* @path is used for messages and to resolve a relative Hessian path, which
