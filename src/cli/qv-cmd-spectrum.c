@@ -14,12 +14,12 @@
 #include "qv-json-writer.h"
 #include "qv-output.h"
 #include "qv-spectrum.h"
+#include "qv-spectrum-table.h"
 #include "qv-tensor-file.h"
 #include "qv-units.h"
 #ifdef QV_HAVE_RENDER
 #include "qv-png-writer.h"
 #include "qv-spectrum-plot.h"
-#include "qv-spectrum-table.h"
 #endif
 
 static const char spectrum_description[] =
@@ -313,6 +313,8 @@ spectrum_json (const QvIntensities *in, const QvSpectrum *s, Kind kind, const ch
   return qv_json_writer_finish (w);
 }
 
+#ifdef QV_HAVE_RENDER
+/* PNG and SVG bytes (drawn with the renderer's plot code only). */
 static int
 write_bytes (const char *output, const void *data, gsize length, gboolean force)
 {
@@ -327,6 +329,7 @@ write_bytes (const char *output, const void *data, gsize length, gboolean force)
     }
   return QV_EXIT_OK;
 }
+#endif
 
 int
 qv_cmd_spectrum (int argc, char **argv)
