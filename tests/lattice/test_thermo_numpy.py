@@ -230,6 +230,26 @@ def main():
                     print("gaussian DOS against NumPy: %.2e" % err)
                     check(err < 1e-6, "gaussian DOS against NumPy %.3g" % err)
 
+        # the CSV and text tables carry the same numbers as the JSON (printed to 8 digits)
+        for fmt in ("csv", "text"):
+            p = subprocess.run([QUAVER, "thermo"] + base + ["--t-min", "0", "--t-max", "900", "--t-step", "150",
+                                                            "-f", fmt], capture_output=True, text=True)
+            check(p.returncode == 0, "thermo %s exit %d: %s" % (fmt, p.returncode, p.stderr))
+            lines = [l for l in p.stdout.splitlines() if l and not l.startswith("#")]
+            if fmt == "csv":
+                header = lines[0].split(",")
+                check(header[:6] == ["T_K", "F_kJ/mol", "U_kJ/mol", "S_J/(K.mol)", "Cv_J/(K.mol)", "ZPE_kJ/mol"],
+                      "csv header %s" % header)
+                lines = lines[1:]
+            rows = np.array([[float(x) for x in l.replace(",", " ").split()] for l in lines])
+            check(rows.shape == (7, 10), "%s table shape %s" % (fmt, rows.shape))
+            if rows.shape == (7, 10):
+                for c, key in enumerate(("F", "U", "S", "Cv", "ZPE")):
+                    ref = np.array(got[key])
+                    check(np.allclose(rows[:, 1 + c], ref, rtol=1e-7, atol=1e-9), "%s %s column" % (fmt, key))
+        p = subprocess.run([QUAVER, "thermo"] + base + ["--sound", "1 0 0", "-f", "csv"], capture_output=True, text=True)
+        check(p.returncode == 1 and "--sound" in p.stderr, "--sound with csv: %d %s" % (p.returncode, p.stderr))
+
         # a molecule is refused with exit 1 and says why
         p = subprocess.run([QUAVER, "thermo", mol, "-H", hess, "-u", "eV/A^2", "--supercell", "1x1x1"],
                            capture_output=True, text=True)
