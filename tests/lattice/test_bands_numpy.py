@@ -215,6 +215,42 @@ def main():
             acoustic = doc["gamma_acoustic_before_sum_rule"]
             check(max(abs(x) for x in acoustic) < 1e-3, "acoustic before the sum rule %s" % acoustic)
 
+        # LO-TO: Born charges +-Z on Cs, Cl and eps_inf; at Gamma approached
+        # along y the spectrum is that of D(0) + D_NA(y), with the rigid-ion
+        # term D_NA = e^2 (q.Z_k)(q.Z_k') / (eps0 Omega q.eps.q sqrt(m_k m_k'))
+        # (Cochran & Cowley 1962, the q -> 0 limit; from memory), computed
+        # here in SI and converted to eV/(A^2 u). Only Gamma is compared:
+        # away from it the term is interpolated (docs/methods.md), which
+        # has no closed form here.
+        z, eps = 1.1, 2.3
+        born = os.path.join(tmp, "born.txt")
+        with open(born, "w") as f:
+            f.write("# invented rigid-ion charges\ndielectric\n%g 0 0\n0 %g 0\n0 0 %g\nborn\n" % (eps, eps, eps))
+            for sign in (1, -1):
+                f.write("%g 0 0\n0 %g 0\n0 0 %g\n" % (sign * z, sign * z, sign * z))
+        p = run([prim, "--supercell", "3x3x3", "-H", hess_std, "-u", "kJ/mol/A^2",
+                 "--path", "G 0 0 0; X 0 0.5 0", "--points", "20", "-f", "json", "--born", born])
+        if p.returncode == 0:
+            doc = json.loads(p.stdout)
+            check(doc.get("born") == born, "the JSON names the Born file")
+            omega = (A * 1e-10) ** 3
+            qhat = np.array([0.0, 1.0, 0.0])
+            charges = [z, -z]
+            d_na = np.zeros((6, 6))
+            for k1 in range(2):
+                for k2 in range(2):
+                    block = sc.e ** 2 * np.outer(charges[k1] * qhat, charges[k2] * qhat) / (
+                        sc.epsilon_0 * omega * eps * np.sqrt(MASSES[k1] * MASSES[k2]) * M_U)
+                    d_na[3 * k1:3 * k1 + 3, 3 * k2:3 * k2 + 3] = block * 1e-20 * M_U / sc.e
+            want = np.sort(wavenumbers(np.linalg.eigvalsh(d_of_q(np.zeros(3)) + d_na)))
+            got = np.sort(np.array(doc["points"][0]["wavenumbers"]))
+            optical = want > 1.0
+            check(np.max(np.abs(got[optical] - want[optical]) / want[optical]) < 1e-5,
+                  "LO-TO at Gamma along y: %s, NumPy %s" % (got[optical], want[optical]))
+            lo_minus_to = want[optical].max() - want[optical].min()
+            check(lo_minus_to > 1.0, "the model splits LO from TO (%.3f cm^-1)" % lo_minus_to)
+            print("LO-TO at Gamma: quaver %s, NumPy %s" % (got[optical], want[optical]))
+
         # a supercell with one atom missing is reported, not folded
         sc_bad = os.path.join(tmp, "bad.xyz")
         xyz(sc_bad, scell, [species[i] for i in perm][:-1], masses[perm][:-1], pos_s[:-1])
