@@ -3,11 +3,15 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <math.h>
 #include <string.h>
+#include "qv-cif.h"
 #include "qv-cli-lattice.h"
 #include "qv-error.h"
 #include "qv-xyz.h"
 
 const char qv_cli_lattice_help[] =
+  "The cell (PRIMITIVE, or any unit cell the supercell repeats) is an extended\n"
+  "XYZ file with Lattice=\"...\" or a CIF (its sites expanded by the symmetry\n"
+  "operators it lists; the cell as written, often the conventional one).\n"
   "The supercell and its Hessian (3N x 3N for its N atoms, in its own atom\n"
   "order, x1 y1 z1 x2 …) come either as\n"
   "  --supercell-structure FILE   the supercell's extended XYZ: atoms in any\n"
@@ -77,14 +81,12 @@ qv_cli_lattice_read_structure (const char *command, const char *path, const char
 {
   g_autoptr(GPtrArray) frames = NULL;
   QvStructure *s;
-  const char *dot = strrchr (path, '.');
 
-  if (dot && g_ascii_strcasecmp (dot, ".cif") == 0)
+  if (qv_cif_is_cif_path (path))
     {
-      g_set_error (error, QV_ERROR, QV_ERROR_INPUT,
-                   "%s: CIF is not read by '%s' yet; write the %s as extended XYZ with "
-                   "Lattice=\"ax ay az bx by bz cx cy cz\"", path, command, what);
-      return NULL;
+      /* the cell as the CIF writes it (often the conventional one), every
+       * site expanded by its operators (qv-cif.h); it needs no "Lattice" */
+      return qv_cif_read_file (path, NULL, error);
     }
   frames = qv_xyz_read_file (path, error);
   if (frames == NULL)
