@@ -51,7 +51,7 @@ print_usage (FILE *out)
            "\n"
            "Commands:\n");
   for (gsize i = 0; i < G_N_ELEMENTS (commands); i++)
-    fprintf (out, "  %-10s %s\n", commands[i].name, commands[i].summary);
+    fprintf (out, "  %-13s  %s\n", commands[i].name, commands[i].summary);
   fprintf (out,
            "\n"
            "Run 'quaver COMMAND --help' for a command's options and examples.\n"
