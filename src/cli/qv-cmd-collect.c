@@ -14,12 +14,16 @@
 #include "qv-output.h"
 #include "qv-solver.h"
 #include "qv-stencil.h"
+#include "qv-symmetric-stencil.h"
 #include "qv-xyz.h"
 
 /* Default largest difference (Å) between a result's positions and the
  * stencil's: above the rounding of codes that print 6–8 decimals, far below
  * any step in use. */
 #define DEFAULT_TOLERANCE 1e-5
+
+/* The manifest scheme of `quaver stencil --symmetric`. */
+#define SYMMETRIC_SCHEME "symmetry-reduced central difference"
 
 static const char collect_description[] =
   "Reads back the structures 'quaver stencil' wrote into DIR, each with its\n"
@@ -34,6 +38,13 @@ static const char collect_description[] =
   "then come from the structure file). RDIR is DIR unless --results. Forces\n"
   "are in eV/A unless --force-units; --gradient reads dE/dx instead of forces.\n"
   "Every missing or mismatched result is named, then collect stops (exit 2).\n"
+  "\n"
+  "A stencil written with --symmetric holds only the symmetry-distinct\n"
+  "displacements of a supercell: collect finds the same space group in\n"
+  "reference.xyz, checks it gives the manifest's displacements, and rebuilds\n"
+  "the whole supercell Hessian from the group's operations (least squares,\n"
+  "symmetrised, averaged over the group); the largest least-squares residual\n"
+  "relative to max|f| is reported as the spread.\n"
   "\n"
   "Output: -o FILE (repeatable) writes the Hessian in eV/A^2, as .npy when the\n"
   "name ends in .npy, otherwise as text (3N rows of 3N numbers); --modes\n"
@@ -90,16 +101,15 @@ force_file_name (const char *name)
 /* Reads and checks the result of displacement @d; on a problem returns FALSE
  * with the message in @problem (newly allocated). */
 static gboolean
-read_result (const QvStencil *st, const QvStructure *reference, gsize d, const char *name,
-             const char *dir, const char *results, double tolerance, double *forces,
-             char **problem)
+read_result (const double *x, const char *what, const QvStructure *reference, gsize d,
+             const char *name, const char *dir, const char *results, double tolerance,
+             double *forces, char **problem)
 {
   g_autofree char *xyz_path = g_build_filename (results, name, NULL);
   g_autofree char *fname = force_file_name (name);
   g_autofree char *force_path = g_build_filename (results, fname, NULL);
   g_autoptr(GPtrArray) frames = NULL;
   g_autoptr(GError) error = NULL;
-  g_autofree double *x = g_new (double, 3 * reference->n_atoms);
   const QvStructure *s;
   double worst = 0.0;
   gsize worst_k = 0;
@@ -141,7 +151,6 @@ read_result (const QvStencil *st, const QvStructure *reference, gsize d, const c
                                     s->atoms[a].z, reference->atoms[a].z);
         return FALSE;
       }
-  qv_stencil_positions (st, reference, d, x);
   for (gsize k = 0; k < 3 * s->n_atoms; k++)
     {
       const double diff = fabs (s->atoms[k / 3].position[k % 3] - x[k]);
@@ -153,14 +162,11 @@ read_result (const QvStencil *st, const QvStructure *reference, gsize d, const c
     }
   if (!(worst <= tolerance))
     {
-      gsize atom;
-      int axis, sign;
-      qv_stencil_displacement (st, d, &atom, &axis, &sign);
       *problem = g_strdup_printf (
         "%s: atom %" G_GSIZE_FORMAT " %c is %.10g A, the stencil put it at %.10g A (off by %.3g A, "
-        "tolerance %.3g A); this is displacement %" G_GSIZE_FORMAT ", atom %" G_GSIZE_FORMAT " %c%c",
+        "tolerance %.3g A); this is displacement %" G_GSIZE_FORMAT ", %s",
         xyz_path, worst_k / 3 + 1, "xyz"[worst_k % 3], s->atoms[worst_k / 3].position[worst_k % 3],
-        x[worst_k], worst, tolerance, d + 1, atom + 1, sign > 0 ? '+' : '-', "xyz"[axis]);
+        x[worst_k], worst, tolerance, d + 1, what);
       return FALSE;
     }
   if (s->forces)
@@ -199,9 +205,69 @@ read_result (const QvStencil *st, const QvStructure *reference, gsize d, const c
 }
 
 /* The stencil and its reference structure from the manifest in @dir. */
+/* The atom, direction and sign of displacement @d of @st as the manifest
+ * frame @fields must give them; FALSE with @error when they differ. */
+static gboolean
+check_symmetric_frame (const QvSymmetricStencil *st, gsize d, const GPtrArray *fields,
+                       const char *manifest_path, const char *name, GError **error)
+{
+  gsize atom;
+  int sign;
+  double dir[3], atom_v = 0, sign_v = 0, got[3] = { 0, 0, 0 };
+  const char *axis = field_string (fields, "axis");
+  const char *direction = field_string (fields, "direction");
+  gboolean ok;
+
+  qv_symmetric_stencil_displacement (st, d, &atom, dir, &sign);
+  ok = field_number (fields, "atom", &atom_v) && field_number (fields, "sign", &sign_v);
+  if (ok && axis && strlen (axis) == 1 && strchr ("xyz", axis[0]))
+    got[axis[0] - 'x'] = 1.0;
+  else if (ok && direction)
+    {
+      g_auto(GStrv) parts = g_strsplit_set (direction, " \t", -1);
+      int k = 0;
+      for (char **p = parts; *p && ok; p++)
+        if (**p)
+          {
+            char *end = NULL;
+            if (k >= 3)
+              ok = FALSE;
+            else
+              {
+                got[k++] = g_ascii_strtod (*p, &end);
+                ok = end && *end == '\0';
+              }
+          }
+      ok = ok && k == 3;
+    }
+  else
+    ok = FALSE;
+  if (!ok)
+    {
+      qv_io_error (error, manifest_path, 0, 0, "%s: the frame lacks the atom, the sign or the axis "
+                   "(or direction) of a symmetric stencil's displacement", name);
+      return FALSE;
+    }
+  if (atom_v != (double) (atom + 1) || sign_v != (double) sign
+      || fabs (got[0] - dir[0]) + fabs (got[1] - dir[1]) + fabs (got[2] - dir[2]) > 1e-9)
+    {
+      qv_io_error (error, manifest_path, 0, 0,
+                   "%s: displacement %" G_GSIZE_FORMAT " is atom %g, direction (%g %g %g), sign %g "
+                   "in the manifest, but the space group of the reference gives atom %" G_GSIZE_FORMAT
+                   ", direction (%g %g %g), sign %d (was reference.xyz or --symprec changed?)",
+                   name, d + 1, atom_v, got[0], got[1], got[2], sign_v, atom + 1, dir[0], dir[1],
+                   dir[2], sign);
+      return FALSE;
+    }
+  return TRUE;
+}
+
+/* The stencil (full, or symmetric when @sym_out is set) and its reference
+ * structure from the manifest in @dir. */
 static gboolean
 load_stencil (const char *dir, const char *manifest_path, QvManifest *m, QvStencil **stencil_out,
-              QvStructure **reference_out, GPtrArray *names, GError **error)
+              QvSymmetricStencil **sym_out, QvStructure **reference_out, GPtrArray *names,
+              GError **error)
 {
   const char *atoms_text = field_string (m->parameters, "atoms");
   const char *ref_name = NULL;
@@ -209,7 +275,12 @@ load_stencil (const char *dir, const char *manifest_path, QvManifest *m, QvStenc
   gsize n_selected = 0;
   double step;
   g_autoptr(QvStencil) st = NULL;
+  g_autoptr(QvSymmetricStencil) sym = NULL;
+  g_autoptr(GPtrArray) frame_fields = NULL;
   g_autoptr(GError) local = NULL;
+  const gboolean symmetric = g_strcmp0 (field_string (m->parameters, "scheme"), SYMMETRIC_SCHEME) == 0;
+  double symprec = 0.0, n_listed = 0.0;
+  gsize n_disp;
   g_autofree char *ref_path = NULL, *ref_data = NULL, *sha = NULL;
   g_autoptr(GPtrArray) frames = NULL;
   const QvManifestFile *ref_file = NULL;
@@ -226,14 +297,32 @@ load_stencil (const char *dir, const char *manifest_path, QvManifest *m, QvStenc
       qv_io_error (error, manifest_path, 0, 0, "the parameters lack the step, the atoms or the atom count");
       return FALSE;
     }
-  if (!qv_stencil_parse_atoms (atoms_text, m->n_atoms, &atoms, &n_selected, &local)
-      || !(st = qv_stencil_new (m->n_atoms, step, atoms, n_selected, &local)))
+  if (symmetric)
     {
-      qv_io_error (error, manifest_path, 0, 0, "%s", local->message);
-      return FALSE;
+      if (!field_number (m->parameters, "symprec", &symprec) || !(symprec > 0)
+          || !field_number (m->parameters, "displacements", &n_listed)
+          || !(n_listed >= 2 && n_listed <= 6.0 * (double) m->n_atoms && n_listed == floor (n_listed)))
+        {
+          qv_io_error (error, manifest_path, 0, 0, "a symmetric stencil's parameters lack the symprec "
+                       "or a displacement count from 2 to 6 per atom");
+          return FALSE;
+        }
+      n_disp = (gsize) n_listed;
+    }
+  else
+    {
+      if (!qv_stencil_parse_atoms (atoms_text, m->n_atoms, &atoms, &n_selected, &local)
+          || !(st = qv_stencil_new (m->n_atoms, step, atoms, n_selected, &local)))
+        {
+          qv_io_error (error, manifest_path, 0, 0, "%s", local->message);
+          return FALSE;
+        }
+      n_disp = st->n_displacements;
     }
 
-  g_ptr_array_set_size (names, (guint) st->n_displacements);
+  g_ptr_array_set_size (names, (guint) n_disp);
+  frame_fields = g_ptr_array_new ();
+  g_ptr_array_set_size (frame_fields, (guint) n_disp);
   for (guint i = 0; i < m->files->len; i++)
     {
       const QvManifestFile *f = g_ptr_array_index (m->files, i);
@@ -246,10 +335,10 @@ load_stencil (const char *dir, const char *manifest_path, QvManifest *m, QvStenc
             ref_file = f;
           else if (field_number (fr->fields, "displacement", &dv))
             {
-              if (!(dv >= 1 && dv <= (double) st->n_displacements && dv == floor (dv)))
+              if (!(dv >= 1 && dv <= (double) n_disp && dv == floor (dv)))
                 {
                   qv_io_error (error, manifest_path, 0, 0, "%s: displacement %g is outside 1 to %"
-                               G_GSIZE_FORMAT, f->name, dv, st->n_displacements);
+                               G_GSIZE_FORMAT, f->name, dv, n_disp);
                   return FALSE;
                 }
               if (f->frames->len != 1 || g_ptr_array_index (names, (guint) dv - 1) != NULL)
@@ -263,14 +352,15 @@ load_stencil (const char *dir, const char *manifest_path, QvManifest *m, QvStenc
                   return FALSE;
                 }
               g_ptr_array_index (names, (guint) dv - 1) = g_strdup (f->name);
+              g_ptr_array_index (frame_fields, (guint) dv - 1) = fr->fields;
             }
         }
     }
-  for (gsize d = 0; d < st->n_displacements; d++)
+  for (gsize d = 0; d < n_disp; d++)
     if (g_ptr_array_index (names, (guint) d) == NULL)
       {
         qv_io_error (error, manifest_path, 0, 0, "displacement %" G_GSIZE_FORMAT " of %" G_GSIZE_FORMAT
-                     " is not listed", d + 1, st->n_displacements);
+                     " is not listed", d + 1, n_disp);
         return FALSE;
       }
   if (ref_file == NULL || strchr (ref_file->name, '/'))
@@ -298,8 +388,36 @@ load_stencil (const char *dir, const char *manifest_path, QvManifest *m, QvStenc
                    ((QvStructure *) g_ptr_array_index (frames, 0))->n_atoms, m->n_atoms);
       return FALSE;
     }
+  if (symmetric)
+    {
+      const QvStructure *ref = g_ptr_array_index (frames, 0);
+      if (!ref->has_cell || !qv_structure_is_periodic (ref))
+        {
+          qv_io_error (error, ref_path, 0, 0, "no periodic cell (Lattice and pbc), which a "
+                       "symmetry-reduced stencil needs");
+          return FALSE;
+        }
+      sym = qv_symmetric_stencil_new (ref, step, symprec, &local);
+      if (sym == NULL)
+        {
+          qv_io_error (error, ref_path, 0, 0, "%s", local->message);
+          return FALSE;
+        }
+      if (qv_symmetric_stencil_n_displacements (sym) != n_disp)
+        {
+          qv_io_error (error, manifest_path, 0, 0, "%" G_GSIZE_FORMAT " displacements listed, but the "
+                       "space group of %s gives %" G_GSIZE_FORMAT " (was it or --symprec changed?)",
+                       n_disp, ref_path, qv_symmetric_stencil_n_displacements (sym));
+          return FALSE;
+        }
+      for (gsize d = 0; d < n_disp; d++)
+        if (!check_symmetric_frame (sym, d, g_ptr_array_index (frame_fields, (guint) d), manifest_path,
+                                    g_ptr_array_index (names, (guint) d), error))
+          return FALSE;
+    }
   *reference_out = qv_structure_copy (g_ptr_array_index (frames, 0));
   *stencil_out = g_steal_pointer (&st);
+  *sym_out = g_steal_pointer (&sym);
   return TRUE;
 }
 
@@ -310,6 +428,7 @@ qv_cmd_collect (int argc, char **argv)
   g_autoptr(GError) error = NULL;
   g_autoptr(QvManifest) manifest = NULL;
   g_autoptr(QvStencil) stencil = NULL;
+  g_autoptr(QvSymmetricStencil) sym = NULL;
   g_autoptr(QvStructure) reference = NULL;
   g_autoptr(QvHessian) hessian = NULL;
   g_autoptr(GPtrArray) names = g_ptr_array_new_with_free_func (g_free);
@@ -319,7 +438,9 @@ qv_cmd_collect (int argc, char **argv)
   char *results = NULL, *units = NULL, *projection = NULL, *format = NULL;
   char **outputs = NULL;
   const char *dir;
-  double tolerance = DEFAULT_TOLERANCE, temperature = 298.15, asymmetry = 0.0, factor;
+  double tolerance = DEFAULT_TOLERANCE, temperature = 298.15, asymmetry = 0.0, factor, step;
+  gsize n_disp;
+  gboolean complete;
   gint64 level = 0;
   gboolean force = FALSE, gradient = FALSE, show_modes = FALSE, vectors = FALSE;
   QvForceUnit unit = QV_FORCE_UNIT_EV_A;
@@ -398,28 +519,53 @@ qv_cmd_collect (int argc, char **argv)
   manifest = qv_manifest_read_file (manifest_path, &error);
   if (manifest == NULL)
     goto fail;
-  if (!load_stencil (dir, manifest_path, manifest, &stencil, &reference, names, &error))
+  if (!load_stencil (dir, manifest_path, manifest, &stencil, &sym, &reference, names, &error))
     goto fail;
-  if (!(tolerance < 0.5 * stencil->step))
+  step = stencil ? stencil->step : 0.0;
+  if (sym && !field_number (manifest->parameters, "step", &step))
+    g_assert_not_reached ();    /* load_stencil checked it */
+  n_disp = sym ? qv_symmetric_stencil_n_displacements (sym) : stencil->n_displacements;
+  complete = sym != NULL || qv_stencil_is_complete (stencil);
+  if (!(tolerance < 0.5 * step))
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
                    "--tolerance %g A cannot tell the displaced structures apart: it must be below "
-                   "half the step (%g A)", tolerance, stencil->step);
+                   "half the step (%g A)", tolerance, step);
       goto fail;
     }
 
   n = 3 * reference->n_atoms;
-  forces = g_try_new (double, stencil->n_displacements * n);
+  forces = g_try_new (double, n_disp * n);
   if (forces == NULL)
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_LIMIT, "not enough memory for the forces of %" G_GSIZE_FORMAT
-                   " structures", stencil->n_displacements);
+                   " structures", n_disp);
       goto fail;
     }
-  for (gsize d = 0; d < stencil->n_displacements; d++)
+  for (gsize d = 0; d < n_disp; d++)
     {
       char *problem = NULL;
-      if (!read_result (stencil, reference, d, g_ptr_array_index (names, (guint) d), dir,
+      g_autofree double *x = g_new (double, n);
+      g_autofree char *what = NULL;
+      gsize atom;
+      int axis, sign;
+      double dir3[3];
+
+      if (sym)
+        {
+          qv_symmetric_stencil_positions (sym, reference, d, x);
+          qv_symmetric_stencil_displacement (sym, d, &atom, dir3, &sign);
+          what = g_strdup_printf ("atom %" G_GSIZE_FORMAT " %c(%g %g %g)", atom + 1,
+                                  sign > 0 ? '+' : '-', dir3[0], dir3[1], dir3[2]);
+        }
+      else
+        {
+          qv_stencil_positions (stencil, reference, d, x);
+          qv_stencil_displacement (stencil, d, &atom, &axis, &sign);
+          what = g_strdup_printf ("atom %" G_GSIZE_FORMAT " %c%c", atom + 1, sign > 0 ? '+' : '-',
+                                  "xyz"[axis]);
+        }
+      if (!read_result (x, what, reference, d, g_ptr_array_index (names, (guint) d), dir,
                         results ? results : dir, tolerance, forces + d * n, &problem))
         g_ptr_array_add (problems, problem);
     }
@@ -429,14 +575,37 @@ qv_cmd_collect (int argc, char **argv)
         g_printerr ("quaver: %s\n", (const char *) g_ptr_array_index (problems, i));
       g_set_error (&error, QV_ERROR, QV_ERROR_INPUT,
                    "%u of %" G_GSIZE_FORMAT " displaced structures have no usable result (listed above); "
-                   "no Hessian written", problems->len, stencil->n_displacements);
+                   "no Hessian written", problems->len, n_disp);
       goto fail;
     }
 
   factor = qv_force_unit_to_ev_a (unit) * (gradient ? -1.0 : 1.0);
   if (factor != 1.0)
-    for (gsize k = 0; k < stencil->n_displacements * n; k++)
+    for (gsize k = 0; k < n_disp * n; k++)
       forces[k] *= factor;
+  if (sym)
+    {
+      double spread = 0.0;
+      hessian = qv_symmetric_stencil_assemble (sym, forces, &spread, &error);
+      if (hessian == NULL)
+        goto fail;
+      g_printerr ("quaver: supercell Hessian (%" G_GSIZE_FORMAT "x%" G_GSIZE_FORMAT ") rebuilt from %"
+                  G_GSIZE_FORMAT " symmetry-distinct structures (the full stencil has %" G_GSIZE_FORMAT
+                  ") with %" G_GSIZE_FORMAT " space-group operations, step %g A; spread (largest "
+                  "least-squares residual / max|f|) = %.3g\n", hessian->n, hessian->n, n_disp,
+                  6 * reference->n_atoms, qv_symmetric_stencil_n_operations (sym), step, spread);
+      if (spread > QV_ASYMMETRY_WARNING)
+        g_printerr ("quaver: warning: the spread is above %g: the forces do not have the symmetry "
+                    "of the supercell (noisy forces, a step too large, or results that do not "
+                    "belong together)\n", QV_ASYMMETRY_WARNING);
+      comment = g_strdup_printf (
+        "Hessian in eV/A^2 from forces by symmetry-reduced central differences (quaver collect %s)\n"
+        "step %.17g A; %" G_GSIZE_FORMAT " displacements, %" G_GSIZE_FORMAT " operations; "
+        "full Hessian; spread %.3g\n"
+        "coordinate order x1 y1 z1 x2 ... over all atoms",
+        dir, step, n_disp, qv_symmetric_stencil_n_operations (sym), spread);
+      goto write;
+    }
   hessian = qv_stencil_assemble (stencil, forces, &asymmetry, NULL, &error);
   if (hessian == NULL)
     goto fail;
@@ -458,6 +627,7 @@ qv_cmd_collect (int argc, char **argv)
     dir, stencil->step, qv_stencil_is_complete (stencil) ? "full Hessian" :
     "partial Hessian: the selected atoms only, all others held fixed", asymmetry,
     qv_stencil_is_complete (stencil) ? "all atoms" : selection);
+write:
   for (char **o = outputs; o && *o; o++)
     {
       const QvHessianWriteFormat wf = qv_hessian_write_format_for (*o);
@@ -468,7 +638,8 @@ qv_cmd_collect (int argc, char **argv)
 
   if (show_modes)
     {
-      g_autoptr(QvStructure) sub = qv_stencil_selected_structure (stencil, reference);
+      g_autoptr(QvStructure) sub = sym ? qv_structure_copy (reference)
+                                       : qv_stencil_selected_structure (stencil, reference);
       g_autoptr(QvModeSet) modes = NULL;
       g_autoptr(QvHessian) copy = qv_hessian_copy (hessian, &error);
       g_autofree char *document = NULL;
@@ -477,9 +648,9 @@ qv_cmd_collect (int argc, char **argv)
 
       if (copy == NULL)
         goto fail;
-      if (!qv_stencil_is_complete (stencil) && projection == NULL)
+      if (!complete && projection == NULL)
         solve.projection = QV_PROJECTION_NONE;
-      else if (!qv_stencil_is_complete (stencil) && solve.projection != QV_PROJECTION_NONE)
+      else if (!complete && solve.projection != QV_PROJECTION_NONE)
         g_printerr ("quaver: warning: rigid-body projection of a partial Hessian: the fixed atoms "
                     "already break translation and rotation invariance\n");
       modes = qv_solve (sub, g_steal_pointer (&copy), &solve, &progress, &error);

@@ -9,7 +9,9 @@
 #include "qv-error.h"
 #include "qv-manifest.h"
 #include "qv-export.h"
+#include "qv-space-group.h"
 #include "qv-stencil.h"
+#include "qv-symmetric-stencil.h"
 #include "qv-xyz.h"
 
 static const char stencil_description[] =
@@ -27,12 +29,19 @@ static const char stencil_description[] =
   "Hessian of the selected atoms with all other atoms held fixed (a partial\n"
   "Hessian), not a full one.\n"
   "\n"
+  "With --symmetric (a periodic supercell only) only the symmetry-distinct\n"
+  "displacements are written: for each orbit of equivalent atoms at most three\n"
+  "directions, +h and -h each (fcc: 2 structures instead of 6N), found with the\n"
+  "supercell's space group at --symprec; collect rebuilds the whole Hessian\n"
+  "from them with the same operations.\n"
+  "\n"
   "GEOMETRY is an XYZ or extended XYZ file (first frame) or a Quaver bundle;\n"
   "no Hessian is needed.\n"
   "\n"
   "Examples:\n"
   "  quaver stencil mol.xyz -o fd\n"
   "  quaver stencil mol.xyz --step 0.005 --atoms 1,3-5 -o fd-partial\n"
+  "  quaver stencil supercell.xyz --symmetric -o fd-crystal\n"
   "\n"
   "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.";
 
@@ -91,8 +100,8 @@ qv_cmd_stencil (int argc, char **argv)
   g_autofree gsize *atoms = NULL;
   g_autofree char *selection = NULL;
   char *output = NULL, *atoms_text = NULL, *format = NULL;
-  double step = QV_STENCIL_DEFAULT_STEP;
-  gboolean force = FALSE, demo = FALSE, plain = FALSE;
+  double step = QV_STENCIL_DEFAULT_STEP, symprec = QV_SPACE_GROUP_DEFAULT_SYMPREC;
+  gboolean force = FALSE, demo = FALSE, plain = FALSE, symmetric = FALSE;
   gsize n_selected = 0;
   int status = QV_EXIT_OK;
   GOptionEntry entries[] = {
@@ -100,6 +109,10 @@ qv_cmd_stencil (int argc, char **argv)
       "Displacement h in A (default 0.01, common practice)", "H" },
     { "atoms", 'a', 0, G_OPTION_ARG_STRING, &atoms_text,
       "Displace only these atoms, e.g. 1,3-5 (from 1; default all)", "LIST" },
+    { "symmetric", 0, 0, G_OPTION_ARG_NONE, &symmetric,
+      "Periodic supercell: only the symmetry-distinct displacements", NULL },
+    { "symprec", 0, 0, G_OPTION_ARG_DOUBLE, &symprec,
+      "With --symmetric: symmetry tolerance in A (default 1e-5)", "A" },
     { "format", 'f', 0, G_OPTION_ARG_STRING, &format,
       "extxyz (default) or xyz (plain, for codes that read only that)", "FORMAT" },
     { "output", 'o', 0, G_OPTION_ARG_FILENAME, &output, "Directory to write (new or empty)", "DIR" },
@@ -147,6 +160,42 @@ qv_cmd_stencil (int argc, char **argv)
   structure = load_geometry (argc == 2 ? argv[1] : NULL, demo, manifest, &error);
   if (structure == NULL)
     goto fail;
+  if (symmetric)
+    {
+      if (atoms_text)
+        {
+          g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                       "--symmetric displaces the whole supercell; leave out --atoms");
+          goto fail;
+        }
+      if (!(symprec > 0.0 && symprec < 1.0))
+        {
+          g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                       "--symprec must be a distance in A above 0 and below 1, got %g", symprec);
+          goto fail;
+        }
+      if (!qv_structure_is_periodic (structure) || !structure->has_cell)
+        {
+          g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
+                       "%s: --symmetric needs a periodic supercell (extended XYZ with Lattice "
+                       "and pbc); this structure has no periodic cell, so leave out "
+                       "--symmetric", argc == 2 ? argv[1] : "demo");
+          goto fail;
+        }
+      qv_export_format_init (&xformat);
+      xformat.style = plain ? QV_XYZ_PLAIN : QV_XYZ_EXTENDED;
+      export_ = qv_export_new_symmetric_stencil (structure, step, symprec, &xformat,
+                                                 g_steal_pointer (&manifest), &error);
+      if (export_ == NULL)
+        goto fail;
+      if (!qv_export_write (export_, output, force, NULL, &error))
+        goto fail;
+      g_printerr ("quaver: wrote %" G_GSIZE_FORMAT " symmetry-distinct displaced structures "
+                  "(instead of %" G_GSIZE_FORMAT ", step %g A) and reference.xyz to %s\n",
+                  qv_export_n_structures (export_) - 1, 6 * structure->n_atoms, step,
+                  qv_export_directory (export_));
+      goto out;
+    }
   if (atoms_text && !qv_stencil_parse_atoms (atoms_text, structure->n_atoms, &atoms, &n_selected, &error))
     goto fail;
   stencil = qv_stencil_new (structure->n_atoms, step, atoms, n_selected, &error);

@@ -5,6 +5,8 @@
 #pragma once
 #include "qv-export.h"
 #include "qv-output-dir.h"
+#include "qv-space-group.h"
+#include "qv-symmetric-stencil.h"
 
 G_BEGIN_DECLS
 
@@ -47,6 +49,8 @@ struct _QvExport {
   gsize block_first, block_count, block_capacity;
   QvStencil *stencil;
   QvStructure *own_structure;
+  QvSymmetricStencil *symmetric_stencil;
+  double symmetric_step;
 };
 
 /* Shared by the kinds: a new export of @command taking @manifest. */

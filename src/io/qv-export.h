@@ -59,6 +59,15 @@ QvExport *qv_export_new_ensemble (const QvStructure *structure, const QvModeSet 
 QvExport *qv_export_new_stencil (const QvStructure *structure, const QvStencil *stencil,
                                  const QvExportFormat *format, QvManifest *manifest,
                                  GError **error);
+/* Only the symmetry-distinct ±@step displacements of the periodic
+ * @supercell (qv_symmetric_stencil_new with spglib's @symprec, ≤ 0 its
+ * default), plus the reference structure, for `quaver collect`, which
+ * rebuilds the whole Hessian from the space group. QV_ERROR_USAGE for a
+ * structure without a periodic cell. @supercell may be freed after the
+ * call (the export keeps a copy). */
+QvExport *qv_export_new_symmetric_stencil (const QvStructure *supercell, double step,
+                                           double symprec, const QvExportFormat *format,
+                                           QvManifest *manifest, GError **error);
 /* A supercell displaced along one lattice mode (qv_frozen_phonon_new), as
  * one extended-XYZ file with its Lattice, q, branch, wavenumber, amplitude
  * and phase on the comment line and in the manifest. @fp may be freed after
