@@ -3,6 +3,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <math.h>
 #include <string.h>
+#include "qv-born-file.h"
 #include "qv-cif.h"
 #include "qv-cli-lattice.h"
 #include "qv-error.h"
@@ -25,7 +26,10 @@ const char qv_cli_lattice_help[] =
   "                               point the primitive atoms in file order.\n"
   "The acoustic sum rule is imposed (a projection that keeps the force\n"
   "constants symmetric); the acoustic wavenumbers at Gamma before it are\n"
-  "reported. --no-sum-rule leaves the force constants as read.\n";
+  "reported. --no-sum-rule leaves the force constants as read.\n"
+  "--born FILE adds the non-analytic (LO-TO) term of a polar crystal from its\n"
+  "Born effective charges and eps_inf (the text file of docs/methods.md,\n"
+  "\"Non-analytic correction\"), interpolated away from Gamma.\n";
 
 void
 qv_cli_lattice_options_init (QvCliLatticeOptions *o)
@@ -42,6 +46,7 @@ qv_cli_lattice_options_clear (QvCliLatticeOptions *o)
   g_clear_pointer (&o->hessian, g_free);
   g_clear_pointer (&o->units, g_free);
   g_clear_pointer (&o->layout, g_free);
+  g_clear_pointer (&o->born, g_free);
 }
 
 void
@@ -59,6 +64,8 @@ qv_cli_lattice_add_entries (GOptionContext *context, QvCliLatticeOptions *o)
     { "tolerance", 0, 0, G_OPTION_ARG_DOUBLE, &o->tolerance,
       "Relative position tolerance for matching atoms (default 0.001)", "T" },
     { "threads", 0, 0, G_OPTION_ARG_INT64, &o->threads, "Worker threads (default: one per processor)", "N" },
+    { "born", 0, 0, G_OPTION_ARG_FILENAME, &o->born,
+      "Born charges and eps_inf (text file): the LO-TO correction near Gamma", "FILE" },
     { NULL }
   };
   g_option_context_add_main_entries (context, entries, NULL);
@@ -69,6 +76,7 @@ qv_cli_lattice_free (QvCliLattice *lattice)
 {
   if (lattice == NULL)
     return;
+  qv_nonanalytic_free (lattice->na);     /* it reads fc */
   qv_force_constants_free (lattice->fc);
   qv_supercell_map_free (lattice->map);
   qv_structure_free (lattice->primitive);
@@ -195,5 +203,24 @@ qv_cli_lattice_load (const char *command, const QvCliLatticeOptions *o,
                 "tens of cm^-1 mean the Hessian or the geometry is not converged (or the "
                 "supercell is too small)\n", lat->before[0], lat->before[1], lat->before[2],
                 o->no_sum_rule ? "(no sum rule imposed)" : "before the sum rule");
+  if (o->born)
+    {
+      /* Polar crystals: the non-analytic term (qv-nonanalytic.h), built on
+       * the force constants as they now are; no direction of approach to Γ
+       * is set, so D(Γ) itself gets no term unless a command sets one. */
+      g_autoptr(QvBornCharges) born = qv_born_charges_read_file (o->born, error);
+      if (born == NULL)
+        return NULL;
+      lat->na = qv_nonanalytic_new (lat->fc, born->n_atoms, born->born, born->epsilon, error);
+      if (lat->na == NULL)
+        {
+          g_prefix_error (error, "%s: ", o->born);
+          return NULL;
+        }
+      if (qv_nonanalytic_neutrality (lat->na) > 1e-3)
+        g_printerr ("quaver: note: the Born charges in %s did not add up to zero; %.3g e was "
+                    "removed from each element (common practice)\n", o->born,
+                    qv_nonanalytic_neutrality (lat->na));
+    }
   return g_steal_pointer (&lat);
 }

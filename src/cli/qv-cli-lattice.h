@@ -7,6 +7,7 @@
 #include <glib.h>
 #include "qv-force-constants.h"
 #include "qv-hessian-file.h"
+#include "qv-nonanalytic.h"
 #include "qv-structure.h"
 #include "qv-supercell.h"
 
@@ -21,14 +22,15 @@ typedef struct {
   double tolerance;
   gboolean no_sum_rule;
   gint64 threads;
+  char *born;                /* --born FILE: Born charges and eps_inf, or NULL */
 } QvCliLatticeOptions;
 
 /* Defaults (tolerance QV_SUPERCELL_DEFAULT_TOLERANCE, threads 0). */
 void qv_cli_lattice_options_init (QvCliLatticeOptions *o);
 void qv_cli_lattice_options_clear (QvCliLatticeOptions *o);
 /* Adds --supercell-structure/-S, --supercell, --hessian/-H,
- * --hessian-units/-u, --hessian-layout, --no-sum-rule, --tolerance and
- * --threads to the main group of @context, bound to @o (which must outlive
+ * --hessian-units/-u, --hessian-layout, --no-sum-rule, --tolerance,
+ * --threads and --born to the main group of @context, bound to @o (which must outlive
  * the parse). */
 void qv_cli_lattice_add_entries (GOptionContext *context, QvCliLatticeOptions *o);
 /* The description paragraph of those options, for help texts. */
@@ -41,6 +43,7 @@ typedef struct {
   QvHessianUnit unit;
   double before[3];          /* acoustic wavenumbers at Γ before the sum rule, cm⁻¹ */
   double row_sum;            /* largest row sum removed, eV/Å² */
+  QvNonAnalytic *na;         /* the LO–TO term of --born (reads fc), NULL without it */
 } QvCliLattice;
 
 void qv_cli_lattice_free (QvCliLattice *lattice);
@@ -53,8 +56,10 @@ QvStructure *qv_cli_lattice_read_structure (const char *command, const char *pat
 
 /* Checks @o (QV_ERROR_USAGE naming @command), reads the primitive cell
  * @primitive_path, the supercell and the Hessian, builds the force
- * constants, imposes the sum rule unless --no-sum-rule and prints the
- * notes of `quaver bands` (periodicity, acoustic wavenumbers) on stderr. */
+ * constants, imposes the sum rule unless --no-sum-rule, reads --born into
+ * @na (qv-nonanalytic.h; no Γ direction set) and prints the notes of the
+ * lattice commands (periodicity, acoustic wavenumbers, charge neutrality)
+ * on stderr. */
 QvCliLattice *qv_cli_lattice_load (const char *command, const QvCliLatticeOptions *o,
                                    const char *primitive_path, GError **error);
 

@@ -6,7 +6,6 @@
 #include <string.h>
 #include "qv-band-path.h"
 #include "qv-cli.h"
-#include "qv-born-file.h"
 #include "qv-cli-lattice.h"
 #include "qv-nonanalytic.h"
 #include "qv-config.h"
@@ -79,9 +78,7 @@ qv_cmd_bands (int argc, char **argv)
 {
   g_autoptr(GOptionContext) context = NULL;
   g_autoptr(GError) error = NULL;
-  char *path_arg = NULL, *format_arg = NULL, *output = NULL, *connect_arg = NULL, *born_arg = NULL;
-  g_autoptr(QvBornCharges) born = NULL;
-  g_autoptr(QvNonAnalytic) na = NULL;
+  char *path_arg = NULL, *format_arg = NULL, *output = NULL, *connect_arg = NULL;
   g_autofree double *solve_q = NULL;
   gint64 points = 201;
   double density = 0;
@@ -107,8 +104,6 @@ qv_cmd_bands (int argc, char **argv)
     { "points", 'n', 0, G_OPTION_ARG_INT64, &points, "About N q points along the path (default 201)", "N" },
     { "density", 0, 0, G_OPTION_ARG_DOUBLE, &density, "Points per 1/A instead of --points", "D" },
     { "connect", 0, 0, G_OPTION_ARG_STRING, &connect_arg, "overlap (default) or sort", "HOW" },
-    { "born", 0, 0, G_OPTION_ARG_FILENAME, &born_arg,
-      "Born charges and eps_inf (text file): the LO-TO correction near Gamma", "FILE" },
     { "format", 'f', 0, G_OPTION_ARG_STRING, &format_arg, "text (default), csv, json", "FORMAT" },
     { "output", 'o', 0, G_OPTION_ARG_FILENAME, &output, "Write to FILE instead of standard output", "FILE" },
     { "force", 0, 0, G_OPTION_ARG_NONE, &force, "Replace an existing output file", NULL },
@@ -181,22 +176,13 @@ qv_cmd_bands (int argc, char **argv)
   if (sampling == NULL)
     goto fail;
   solve_q = g_memdup2 (sampling->q, 3 * sampling->n_q * sizeof (double));
-  if (born_arg)
+  if (lattice->na)
     {
-      /* Polar crystals: the non-analytic term (qv-nonanalytic.h). At Γ
-       * itself it depends on the direction of approach, so a path point at
-       * Γ is solved a step of 1e-6 (fractional) towards its neighbour on the
-       * same piece of the path; its reported q stays Γ. */
-      born = qv_born_charges_read_file (born_arg, &error);
-      if (born == NULL)
-        goto fail;
-      na = qv_nonanalytic_new (fc, born->n_atoms, born->born, born->epsilon, &error);
-      if (na == NULL)
-        goto fail;
-      if (qv_nonanalytic_neutrality (na) > 1e-3)
-        g_printerr ("quaver: note: the Born charges in %s did not add up to zero; %.3g e was "
-                    "removed from each element (common practice)\n", born_arg,
-                    qv_nonanalytic_neutrality (na));
+      /* Polar crystals: the non-analytic term (qv-nonanalytic.h, read by
+       * qv-cli-lattice). At Γ itself it depends on the direction of
+       * approach, so a path point at Γ is solved a step of 1e-6
+       * (fractional) towards its neighbour on the same piece of the path;
+       * its reported q stays Γ. */
       for (gsize k = 0; k < sampling->n_q; k++)
         {
           double *q = solve_q + 3 * k, d[3], norm = 0.0;
@@ -217,8 +203,8 @@ qv_cmd_bands (int argc, char **argv)
             q[c] = norm > 0.0 ? 1e-6 * d[c] / norm : 0.0;
         }
     }
-  set = born_arg
-    ? qv_dynamical_matrix_solve_with (fc, qv_nonanalytic_add, na, solve_q, sampling->n_q, overlap,
+  set = lattice->na
+    ? qv_dynamical_matrix_solve_with (fc, qv_nonanalytic_add, lattice->na, solve_q, sampling->n_q, overlap,
                                       (guint) lo.threads, &progress, &error)
     : qv_dynamical_matrix_solve (fc, solve_q, sampling->n_q, overlap, (guint) lo.threads,
                                  &progress, &error);
@@ -243,8 +229,8 @@ qv_cmd_bands (int argc, char **argv)
       qv_json_string (w, "primitive", argv[1]);
       qv_json_string (w, "hessian", lo.hessian);
       qv_json_string (w, "hessian_units", qv_hessian_unit_name (lattice->unit));
-      if (born_arg)
-        qv_json_string (w, "born", born_arg);
+      if (lo.born)
+        qv_json_string (w, "born", lo.born);
       for (int i = 0; i < 9; i++)
         m[i] = map->matrix[i / 3][i % 3];
       qv_json_numbers (w, "supercell_matrix", m, 9);
@@ -365,6 +351,6 @@ fail:
 out:
   qv_cli_lattice_options_clear (&lo);
   g_free (path_arg); g_free (format_arg); g_free (output);
-  g_free (connect_arg); g_free (born_arg);
+  g_free (connect_arg);
   return status;
 }

@@ -32,6 +32,10 @@ static const char dos_tail[] =
   "--unit chooses cm-1 (default), THz or meV for the grid, --sigma, --step,\n"
   "--min and --max (default range: the modes', padded by 5 sigma).\n"
   "\n"
+  "With --born the LO-TO term enters every mesh point except Gamma itself,\n"
+  "which has no direction of approach: that one point (weight 1/N_q) keeps\n"
+  "the TO frequencies only.\n"
+  "\n"
   "Output (--format): text (default; columns frequency, total, one per\n"
   "element), csv, json (grid, total, partial per element, method, mesh).\n"
   "\n"
@@ -159,8 +163,12 @@ qv_cmd_dos (int argc, char **argv)
   mesh = qv_phonon_mesh_new (n, &error);
   if (mesh == NULL)
     goto fail;
-  dos = qv_phonon_dos_from_force_constants (lattice->fc, lattice->map->z, mesh, &opt,
-                                            (guint) lo.threads, &progress, &error);
+  /* with --born the LO-TO term is added at every mesh q but Γ, where
+   * lattice->na has no direction of approach (docs/methods.md) */
+  dos = qv_phonon_dos_from_force_constants_with (lattice->fc,
+                                                 lattice->na ? qv_nonanalytic_add : NULL,
+                                                 lattice->na, lattice->map->z, mesh, &opt,
+                                                 (guint) lo.threads, &progress, &error);
   if (dos == NULL)
     goto fail;
 
@@ -177,6 +185,12 @@ qv_cmd_dos (int argc, char **argv)
       qv_json_string (w, "program", "quaver dos " QV_VERSION);
       qv_json_string (w, "primitive", argv[1]);
       qv_json_string (w, "hessian", lo.hessian);
+      if (lo.born)
+        {
+          qv_json_string (w, "born", lo.born);
+          qv_json_string (w, "nonanalytic_at_gamma",
+                          "left out: no direction of approach (TO only at q = 0, weight 1/N_q)");
+        }
       qv_json_string (w, "method", qv_dos_method_name (dos->method));
       if (dos->method == QV_DOS_GAUSSIAN)
         qv_json_number (w, "sigma", dos->sigma * per_cm1);
@@ -229,6 +243,10 @@ qv_cmd_dos (int argc, char **argv)
       g_string_append_printf (out, "\n# DOS: states per %s per primitive cell; integrates to 3n = %"
                               G_GSIZE_FORMAT "; negative frequencies are imaginary\n",
                               qv_frequency_unit_name (unit), 3 * lattice->map->n_primitive);
+      if (lo.born)
+        g_string_append_printf (out, "# Born charges from %s: the LO-TO term is added at every q "
+                                "except Gamma itself, which has no direction of approach (TO only "
+                                "at that one point, weight 1/N_q)\n", lo.born);
       g_string_append_printf (out, "# frequency_%s total", qv_frequency_unit_name (unit));
       for (gsize g = 0; g < dos->n_groups; g++)
         g_string_append_printf (out, " %s", symbol (dos->z[g]));

@@ -47,6 +47,11 @@ static const char thermo_tail[] =
   "vectors; from omega/|q| at |q| = 0.001 and 0.002 1/A, extrapolated to q = 0,\n"
   "with the departure from linearity reported.\n"
   "\n"
+  "With --born the LO-TO term enters the sums and U tensors at every mesh\n"
+  "point except Gamma itself, which has no direction of approach: that one\n"
+  "point (weight 1/N_q) keeps the TO frequencies only. --sound uses the\n"
+  "force constants alone.\n"
+  "\n"
   "Output (--format): text (default), csv (no --sound), json (T, F, U, S,\n"
   "Cv, ZPE with their units, counts of modes left out, U tensors, sound).\n"
   "\n"
@@ -275,8 +280,11 @@ qv_cmd_thermo (int argc, char **argv)
   mesh = qv_phonon_mesh_new (n, &error);
   if (mesh == NULL)
     goto fail;
-  set = qv_dynamical_matrix_solve (lattice->fc, mesh->q, mesh->n_q, FALSE, (guint) lo.threads,
-                                   &progress, &error);
+  /* with --born the LO-TO term is added at every mesh q but Γ, where
+   * lattice->na has no direction of approach (docs/methods.md) */
+  set = qv_dynamical_matrix_solve_with (lattice->fc, lattice->na ? qv_nonanalytic_add : NULL,
+                                        lattice->na, mesh->q, mesh->n_q, FALSE, (guint) lo.threads,
+                                        &progress, &error);
   if (set == NULL)
     goto fail;
   th = qv_thermal_compute (mesh->n_q, set->n_branches, mesh->q, set->wavenumbers, TRUE, t, n_t);
@@ -287,7 +295,9 @@ qv_cmd_thermo (int argc, char **argv)
                 mesh->n_q * set->n_branches, th->most_imaginary);
   if (adp)
     {
-      u = qv_thermal_displacements (lattice->fc, mesh, t, n_t, TRUE, (guint) lo.threads, &progress, &error);
+      u = qv_thermal_displacements_with (lattice->fc, lattice->na ? qv_nonanalytic_add : NULL,
+                                         lattice->na, mesh, t, n_t, TRUE, (guint) lo.threads,
+                                         &progress, &error);
       if (u == NULL)
         goto fail;
     }
@@ -338,6 +348,12 @@ qv_cmd_thermo (int argc, char **argv)
       qv_json_string (w, "program", "quaver thermo " QV_VERSION);
       qv_json_string (w, "primitive", argv[1]);
       qv_json_string (w, "hessian", lo.hessian);
+      if (lo.born)
+        {
+          qv_json_string (w, "born", lo.born);
+          qv_json_string (w, "nonanalytic_at_gamma",
+                          "left out: no direction of approach (TO only at q = 0, weight 1/N_q)");
+        }
       qv_json_numbers (w, "mesh", mesh_d, 3);
       qv_json_string (w, "mesh_kind", "Gamma-centred, no symmetry reduction");
       qv_json_int (w, "n_q", (gint64) mesh->n_q);
@@ -432,6 +448,11 @@ qv_cmd_thermo (int argc, char **argv)
       g_string_append_printf (out, "# modes summed %" G_GSIZE_FORMAT "; left out: %" G_GSIZE_FORMAT
                               " acoustic at Gamma, %" G_GSIZE_FORMAT " imaginary, %" G_GSIZE_FORMAT " zero\n",
                               th->n_modes, th->n_gamma_skipped, th->n_imaginary, th->n_zero);
+      if (lo.born)
+        g_string_append_printf (out, "# Born charges from %s: the LO-TO term is added at every q "
+                                "except Gamma itself, which has no direction of approach (TO only "
+                                "at that one point, weight 1/N_q); --sound from the force constants "
+                                "alone\n", lo.born);
       g_string_append (out, "# per mole of formula units: F, U, ZPE in kJ/mol; S, Cv in J/(K mol). "
                             "Per primitive cell: F, U, ZPE in eV; S, Cv in meV/K\n");
       for (gsize d = 0; d < n_dirs; d++)

@@ -298,6 +298,17 @@ qv_phonon_dos_from_force_constants (const QvForceConstants *fc, const guint *sit
                                     const QvPhononMesh *mesh, const QvDosOptions *options,
                                     guint n_threads, const QvProgress *progress, GError **error)
 {
+  return qv_phonon_dos_from_force_constants_with (fc, NULL, NULL, site_z, mesh, options,
+                                                  n_threads, progress, error);
+}
+
+QvPhononDos *
+qv_phonon_dos_from_force_constants_with (const QvForceConstants *fc, QvDynamicalTerm term,
+                                         gpointer data, const guint *site_z,
+                                         const QvPhononMesh *mesh, const QvDosOptions *options,
+                                         guint n_threads, const QvProgress *progress,
+                                         GError **error)
+{
   gsize n = qv_force_constants_n_sites (fc), nb = 3 * n, n_groups = 0;
   g_autofree guint *z = g_new (guint, n);
   g_autofree guint *group = g_new (guint, n);
@@ -324,7 +335,8 @@ qv_phonon_dos_from_force_constants (const QvForceConstants *fc, const guint *sit
   w = g_new (double, mesh->n_q * nb);
   weights = g_new0 (double, mesh->n_q * nb * n_groups);
   job = (DosJob) { nb, n_groups, n, group, w, weights };
-  if (!qv_phonon_mesh_solve (fc, mesh, TRUE, 0, n_threads, dos_chunk, &job, progress, error))
+  if (!qv_phonon_mesh_solve_with (fc, term, data, mesh, TRUE, 0, n_threads, dos_chunk, &job,
+                                  progress, error))
     return NULL;
   qv_lattice_reciprocal (qv_force_constants_cell (fc), reciprocal);
   return qv_phonon_dos_compute (mesh, reciprocal, nb, w, weights, n_groups, z, options, error);

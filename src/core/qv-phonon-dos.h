@@ -73,4 +73,15 @@ QvPhononDos *qv_phonon_dos_from_force_constants (const QvForceConstants *fc,
                                                  const QvDosOptions *options, guint n_threads,
                                                  const QvProgress *progress, GError **error);
 
+/* qv_phonon_dos_from_force_constants with @term and @data added to every
+ * D(q) (qv_phonon_mesh_solve_with; NULL: the same, bit for bit). */
+QvPhononDos *qv_phonon_dos_from_force_constants_with (const QvForceConstants *fc,
+                                                      QvDynamicalTerm term, gpointer data,
+                                                      const guint *site_z,
+                                                      const QvPhononMesh *mesh,
+                                                      const QvDosOptions *options,
+                                                      guint n_threads,
+                                                      const QvProgress *progress,
+                                                      GError **error);
+
 G_END_DECLS

@@ -117,6 +117,16 @@ qv_phonon_mesh_solve (const QvForceConstants *fc, const QvPhononMesh *mesh,
                       QvPhononChunkFunc func, gpointer user_data,
                       const QvProgress *progress, GError **error)
 {
+  return qv_phonon_mesh_solve_with (fc, NULL, NULL, mesh, want_vectors, chunk_size, n_threads,
+                                    func, user_data, progress, error);
+}
+
+gboolean
+qv_phonon_mesh_solve_with (const QvForceConstants *fc, QvDynamicalTerm term, gpointer data,
+                           const QvPhononMesh *mesh, gboolean want_vectors, gsize chunk_size,
+                           guint n_threads, QvPhononChunkFunc func, gpointer user_data,
+                           const QvProgress *progress, GError **error)
+{
   if (chunk_size == 0)
     chunk_size = 4096;
   for (gsize start = 0; start < mesh->n_q; start += chunk_size)
@@ -125,8 +135,9 @@ qv_phonon_mesh_solve (const QvForceConstants *fc, const QvPhononMesh *mesh,
       ChunkProgress cp = { progress, start, count, mesh->n_q };
       QvProgress inner = { chunk_progress, &cp };
       g_autoptr(QvPhononSet) set =
-        qv_dynamical_matrix_solve (fc, mesh->q + 3 * start, count, want_vectors, n_threads,
-                                   progress && progress->func ? &inner : NULL, error);
+        qv_dynamical_matrix_solve_with (fc, term, data, mesh->q + 3 * start, count,
+                                        want_vectors, n_threads,
+                                        progress && progress->func ? &inner : NULL, error);
       if (set == NULL || !func (set, start, user_data, error))
         return FALSE;
     }

@@ -44,4 +44,13 @@ gboolean qv_phonon_mesh_solve (const QvForceConstants *fc, const QvPhononMesh *m
                                QvPhononChunkFunc func, gpointer user_data,
                                const QvProgress *progress, GError **error);
 
+/* qv_phonon_mesh_solve with @term (may be NULL: the same as
+ * qv_phonon_mesh_solve, bit for bit) added to every D(q) with @data, as
+ * qv_dynamical_matrix_solve_with. */
+gboolean qv_phonon_mesh_solve_with (const QvForceConstants *fc, QvDynamicalTerm term,
+                                    gpointer data, const QvPhononMesh *mesh,
+                                    gboolean want_vectors, gsize chunk_size, guint n_threads,
+                                    QvPhononChunkFunc func, gpointer user_data,
+                                    const QvProgress *progress, GError **error);
+
 G_END_DECLS

@@ -214,10 +214,21 @@ qv_thermal_displacements (const QvForceConstants *fc, const QvPhononMesh *mesh,
                           const double *t, gsize n_t, gboolean skip_gamma_acoustic,
                           guint n_threads, const QvProgress *progress, GError **error)
 {
+  return qv_thermal_displacements_with (fc, NULL, NULL, mesh, t, n_t, skip_gamma_acoustic,
+                                        n_threads, progress, error);
+}
+
+double *
+qv_thermal_displacements_with (const QvForceConstants *fc, QvDynamicalTerm term, gpointer data,
+                               const QvPhononMesh *mesh, const double *t, gsize n_t,
+                               gboolean skip_gamma_acoustic, guint n_threads,
+                               const QvProgress *progress, GError **error)
+{
   gsize n = qv_force_constants_n_sites (fc);
   UJob job = { n, n_t, t, qv_force_constants_masses (fc), skip_gamma_acoustic,
                g_new0 (double, n_t * n * 9) };
-  if (!qv_phonon_mesh_solve (fc, mesh, TRUE, 0, n_threads, u_chunk, &job, progress, error))
+  if (!qv_phonon_mesh_solve_with (fc, term, data, mesh, TRUE, 0, n_threads, u_chunk, &job,
+                                  progress, error))
     {
       g_free (job.u);
       return NULL;

@@ -69,6 +69,14 @@ double *qv_thermal_displacements (const QvForceConstants *fc, const QvPhononMesh
                                   const double *t, gsize n_t, gboolean skip_gamma_acoustic,
                                   guint n_threads, const QvProgress *progress, GError **error);
 
+/* qv_thermal_displacements with @term and @data added to every D(q)
+ * (qv_phonon_mesh_solve_with; NULL: the same, bit for bit). */
+double *qv_thermal_displacements_with (const QvForceConstants *fc, QvDynamicalTerm term,
+                                       gpointer data, const QvPhononMesh *mesh,
+                                       const double *t, gsize n_t, gboolean skip_gamma_acoustic,
+                                       guint n_threads, const QvProgress *progress,
+                                       GError **error);
+
 typedef struct {
   double direction[3];    /* unit Cartesian direction of q */
   double velocity[3];     /* m/s of the three acoustic branches, ascending */

@@ -13,6 +13,13 @@ scipy.constants:
     Cv = k sum x^2 e^x/(e^x-1)^2,  U_k = sum hbar/(2 N m_k w) coth(x/2) Re(e e^+),
 each mesh point weighing 1/N_q, the three acoustic modes at Gamma left out.
 
+With --born (invented rigid-ion charges +-Z, eps_inf), D(q) gains the
+non-analytic term of Cochran & Cowley (J. Phys. Chem. Solids 23, 447, 1962,
+the q -> 0 limit; from memory), spread over the supercell as Wang et al.,
+J. Phys.: Condens. Matter 22, 202201 (2010) (from memory), rebuilt here in
+SI from scipy.constants with its own Wigner-Seitz images
+(docs/methods.md, "Non-analytic correction"), and left out at Gamma itself.
+
 SPDX-License-Identifier: GPL-3.0-or-later
 """
 import json
@@ -111,13 +118,52 @@ def write_inputs(tmp):
     return prim, hess, mol
 
 
-def mesh_modes():
+SUPERCELL = 3            # the 3x3x3 supercell of write_inputs
+WS_TOLERANCE = 1e-5      # images kept within this relative length of the shortest (docs/methods.md)
+
+
+def ws_images(r0):
+    """Shortest images of r0 modulo the supercell lattice, each weighing 1/count."""
+    scell = CELL * SUPERCELL
+    cands = np.array([r0 + np.array(t) @ scell for t in np.ndindex(5, 5, 5)]) - 2 * scell.sum(axis=0)
+    lens = np.linalg.norm(cands, axis=1)
+    keep = cands[lens <= lens.min() * (1 + WS_TOLERANCE) + 1e-12]
+    return keep, 1.0 / len(keep)
+
+
+def nonanalytic(qcart, charges, eps):
+    """D_NA(q) in eV/(A^2 u) for isotropic charges Z_k (rigid ions) and eps_inf (3x3):
+    e^2 (q^.Z_k)(q^.Z_k') / (eps0 Omega q^.eps.q^ sqrt(m m')) times
+    (1/N_c) sum_L sum_images w exp(i q.(R_L + T + tau_k' - tau_k)); zero at q = 0."""
+    d = np.zeros((6, 6), complex)
+    qlen = np.linalg.norm(qcart)
+    if qlen == 0:
+        return d
+    qhat = qcart / qlen
+    omega = abs(np.linalg.det(CELL)) * 1e-30          # m^3
+    nc = SUPERCELL ** 3
+    for k1 in range(2):
+        for k2 in range(2):
+            phase = 0
+            for l in np.ndindex(SUPERCELL, SUPERCELL, SUPERCELL):
+                images, w = ws_images(np.array(l) @ CELL + TAU[k2] - TAU[k1])
+                phase += w * np.exp(1j * images @ qcart).sum()
+            block = sc.e ** 2 * np.outer(charges[k1] * qhat, charges[k2] * qhat) / (
+                sc.epsilon_0 * omega * (qhat @ eps @ qhat) * np.sqrt(MASSES[k1] * MASSES[k2]) * M_U)
+            d[3 * k1:3 * k1 + 3, 3 * k2:3 * k2 + 3] = block * 1e-20 * M_U / sc.e * phase / nc
+    return d
+
+
+def mesh_modes(extra=None):
     recip = 2 * np.pi * np.linalg.inv(CELL).T
     qs, ws, vs = [], [], []
     for i, j, k in np.ndindex(*MESH):
         f = np.array([i, j, k], float) / MESH
         f = np.where(2 * np.array([i, j, k]) > np.array(MESH), f - 1, f)
-        lam, vec = np.linalg.eigh(d_of_q(f @ recip))
+        d = d_of_q(f @ recip)
+        if extra is not None:
+            d = d + extra(f @ recip)
+        lam, vec = np.linalg.eigh(d)
         qs.append(f); ws.append(np.sign(lam) * np.sqrt(np.abs(lam)) * CM1); vs.append(vec)
     return np.array(qs), np.array(ws), np.array(vs)
 
@@ -157,6 +203,85 @@ def thermal(qs, ws, vs, temps):
                              * np.real(np.outer(e_k, e_k.conj()))) * 1e20
         adp.append(u)
     return out, adp
+
+
+def born_checks(tmp, base, plain, ws_plain):
+    """--born for thermo and dos: against NumPy sums over eig(D(q) + D_NA(q))."""
+    z, eps = 1.1, 2.3
+    charges = [z, -z]
+    born = os.path.join(tmp, "born.txt")
+    with open(born, "w") as f:
+        f.write("# invented rigid-ion charges\ndielectric\n%g 0 0\n0 %g 0\n0 0 %g\nborn\n" % (eps, eps, eps))
+        for c in charges:
+            f.write("%g 0 0\n0 %g 0\n0 0 %g\n" % (c, c, c))
+    tflags = ["--t-min", "0", "--t-max", "900", "--t-step", "150", "--adp"]
+    p = subprocess.run([QUAVER, "thermo"] + base + tflags + ["-f", "json", "--born", born],
+                       capture_output=True, text=True)
+    check(p.returncode == 0, "thermo --born exit %d: %s" % (p.returncode, p.stderr))
+    if p.returncode != 0:
+        return
+    got = json.loads(p.stdout)
+    check(got.get("born") == born and "left out" in got.get("nonanalytic_at_gamma", ""),
+          "thermo JSON names the Born file and the Gamma rule")
+    temps = np.array(got["T"])
+    qs, ws, vs = mesh_modes(lambda q: nonanalytic(q, charges, np.eye(3) * eps))
+    want, adp = thermal(qs, ws, vs, temps)
+    for key in ("F", "S", "Cv", "ZPE", "U"):
+        g = np.array(got["per_cell"][key]); w = np.array(want[key]); p0 = np.array(plain["per_cell"][key])
+        err = np.max(np.abs(g - w)) / np.max(np.abs(w))
+        shift = np.max(np.abs(w - p0)) / np.max(np.abs(w))
+        print("--born %s per cell: largest relative difference %.2e (the term moves it by %.2e)"
+              % (key, err, shift))
+        check(err < 1e-8, "--born %s per cell: %s vs NumPy %s" % (key, g, w))
+        if key in ("F", "ZPE"):
+            check(shift > 1e-5, "--born changes %s (%.3g), so the check can fail" % (key, shift))
+    uerr = 0
+    for s in range(2):
+        for i in range(len(temps)):
+            g = np.array(got["adp"][s]["U"][i]).reshape(3, 3)
+            uerr = max(uerr, np.max(np.abs(g - adp[i][s])) / np.max(np.abs(adp[i][s])))
+    print("--born U tensors: largest relative difference %.2e" % uerr)
+    check(uerr < 1e-8, "--born U tensors differ by %.3g" % uerr)
+    # the LO branch lies above every mode of the analytic D(q) near Gamma
+    print("--born highest mesh mode %.4f cm^-1 (without: %.4f)" % (ws.max(), ws_plain.max()))
+    check(ws.max() > ws_plain.max() + 1, "the term raises the highest mode")
+
+    p = subprocess.run([QUAVER, "thermo"] + base + tflags + ["-f", "text", "--born", born],
+                       capture_output=True, text=True)
+    check(p.returncode == 0 and "except Gamma itself" in p.stdout, "thermo text notes Gamma: %s" % p.stderr)
+
+    for method in ("tetrahedron", "gaussian"):
+        p = subprocess.run([QUAVER, "dos"] + base + ["--method", method, "-f", "json", "--born", born],
+                           capture_output=True, text=True)
+        check(p.returncode == 0, "dos --born exit %d: %s" % (p.returncode, p.stderr))
+        if p.returncode != 0:
+            continue
+        d = json.loads(p.stdout)
+        tot = np.sum(d["total"]) * d["step"]
+        parts = {k: np.sum(v) * d["step"] for k, v in d["partial"].items()}
+        print("dos --born %s: integral %.8f, partial %s, top of grid %.3f" % (method, tot, parts, d["frequency"][-1]))
+        check(abs(tot - 6) < 1e-5, "dos --born %s integral %.8f (3n = 6)" % (method, tot))
+        for k in ("K", "Br"):
+            check(abs(parts[k] - 3) < 1e-5, "dos --born partial %s %s %.8f" % (method, k, parts[k]))
+        if method == "gaussian":
+            x = np.array(d["frequency"])
+            sig = d["sigma"]
+            g = np.exp(-0.5 * ((x[:, None] - ws.ravel()[None, :]) / sig) ** 2).sum(axis=1)
+            g /= sig * np.sqrt(2 * np.pi) * len(qs)
+            err = np.max(np.abs(np.array(d["total"]) - g)) / np.max(g)
+            print("gaussian DOS --born against NumPy: %.2e" % err)
+            check(err < 1e-6, "gaussian DOS --born against NumPy %.3g" % err)
+    p = subprocess.run([QUAVER, "dos"] + base + ["--born", born], capture_output=True, text=True)
+    check(p.returncode == 0 and "except Gamma itself" in p.stdout, "dos text notes Gamma: %s" % p.stderr)
+
+    # charges for three atoms in a two-site cell: input error naming the file
+    bad = os.path.join(tmp, "born3.txt")
+    with open(bad, "w") as f:
+        f.write("dielectric\n1 0 0\n0 1 0\n0 0 1\nborn\n" + "1 0 0\n0 1 0\n0 0 1\n" * 3)
+    for cmd in ("dos", "thermo"):
+        p = subprocess.run([QUAVER, cmd] + base + ["--born", bad], capture_output=True, text=True)
+        check(p.returncode == 2 and bad in p.stderr and "primitive cell has 2" in p.stderr,
+              "%s --born with 3 atoms: exit %d, %s" % (cmd, p.returncode, p.stderr))
 
 
 def main():
@@ -249,6 +374,8 @@ def main():
                     check(np.allclose(rows[:, 1 + c], ref, rtol=1e-7, atol=1e-9), "%s %s column" % (fmt, key))
         p = subprocess.run([QUAVER, "thermo"] + base + ["--sound", "1 0 0", "-f", "csv"], capture_output=True, text=True)
         check(p.returncode == 1 and "--sound" in p.stderr, "--sound with csv: %d %s" % (p.returncode, p.stderr))
+
+        born_checks(tmp, base, got, ws)
 
         # a molecule is refused with exit 1 and says why
         p = subprocess.run([QUAVER, "thermo", mol, "-H", hess, "-u", "eV/A^2", "--supercell", "1x1x1"],
