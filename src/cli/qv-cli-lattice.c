@@ -224,3 +224,37 @@ qv_cli_lattice_load (const char *command, const QvCliLatticeOptions *o,
     }
   return g_steal_pointer (&lat);
 }
+
+gboolean
+qv_cli_lattice_parse (const char *command, GOptionContext *context, QvCliLatticeOptions *o,
+                      const GOptionEntry *entries, int *argc, char ***argv, GError **error)
+{
+  qv_cli_lattice_options_init (o);
+  qv_cli_lattice_add_entries (context, o);
+  g_option_context_add_main_entries (context, entries, NULL);
+  if (!g_option_context_parse (context, argc, argv, error))
+    return FALSE;
+  if (*argc != 2)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, *argc < 2
+                   ? "%s needs the PRIMITIVE cell (extended XYZ with Lattice=\"…\", or CIF)"
+                   : "%s takes one PRIMITIVE file, got %d", command, *argc - 1);
+      return FALSE;
+    }
+  return TRUE;
+}
+
+gboolean
+qv_cli_lattice_format_parse (const char *text, QvCliLatticeFormat *format, GError **error)
+{
+  static const char *const names[] = { "text", "csv", "json" };
+
+  for (int i = 0; i < 3; i++)
+    if (g_ascii_strcasecmp (text, names[i]) == 0)
+      {
+        *format = (QvCliLatticeFormat) i;
+        return TRUE;
+      }
+  g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "unknown format '%s'; accepted: text, csv, json", text);
+  return FALSE;
+}

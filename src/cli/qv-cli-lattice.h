@@ -36,6 +36,25 @@ void qv_cli_lattice_add_entries (GOptionContext *context, QvCliLatticeOptions *o
 /* The description paragraph of those options, for help texts. */
 extern const char qv_cli_lattice_help[];
 
+/* The command line of a lattice command: initialises @o, puts the lattice
+ * options and the command's own @entries in @context's main group, parses,
+ * and checks that exactly one PRIMITIVE file is left (QV_ERROR_USAGE naming
+ * @command otherwise). */
+gboolean qv_cli_lattice_parse (const char *command, GOptionContext *context,
+                               QvCliLatticeOptions *o, const GOptionEntry *entries,
+                               int *argc, char ***argv, GError **error);
+
+/* The tables of bands, dos and thermo. */
+typedef enum {
+  QV_CLI_LATTICE_TEXT,
+  QV_CLI_LATTICE_CSV,
+  QV_CLI_LATTICE_JSON,
+} QvCliLatticeFormat;
+
+/* "text", "csv" or "json" (any case); QV_ERROR_USAGE naming them otherwise. */
+gboolean qv_cli_lattice_format_parse (const char *text, QvCliLatticeFormat *format,
+                                      GError **error);
+
 typedef struct {
   QvStructure *primitive;
   QvSupercellMap *map;

@@ -48,7 +48,6 @@ static const char bands_description_tail[] =
   "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.\n"
   "Harmonic phonons are an approximation: validate them before relying on them.";
 
-typedef enum { FORMAT_TEXT, FORMAT_CSV, FORMAT_JSON } Format;
 
 static char *
 fmt (double v, const char *format)
@@ -95,7 +94,7 @@ qv_cmd_bands (int argc, char **argv)
   g_autofree char *path_text = NULL;
   g_autoptr(GString) out = NULL;
   gboolean overlap = TRUE;
-  Format format = FORMAT_TEXT;
+  QvCliLatticeFormat format = QV_CLI_LATTICE_TEXT;
   QvProgress progress = { qv_cli_progress, NULL };
   int status = QV_EXIT_OK;
   gsize nb;
@@ -115,34 +114,10 @@ qv_cmd_bands (int argc, char **argv)
   g_option_context_set_summary (context, "Phonon dispersion along a path from a supercell Hessian.");
   description = g_strconcat (bands_description_head, qv_cli_lattice_help, bands_description_tail, NULL);
   g_option_context_set_description (context, description);
-  qv_cli_lattice_options_init (&lo);
-  qv_cli_lattice_add_entries (context, &lo);
-  g_option_context_add_main_entries (context, entries, NULL);
-  if (!g_option_context_parse (context, &argc, &argv, &error))
+  if (!qv_cli_lattice_parse ("bands", context, &lo, entries, &argc, &argv, &error))
     goto fail;
-
-  if (argc != 2)
-    {
-      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, argc < 2
-                   ? "bands needs the PRIMITIVE cell (extended XYZ with Lattice=\"…\")"
-                   : "bands takes one PRIMITIVE file, got %d", argc - 1);
-      goto fail;
-    }
-  if (format_arg)
-    {
-      if (g_ascii_strcasecmp (format_arg, "text") == 0)
-        format = FORMAT_TEXT;
-      else if (g_ascii_strcasecmp (format_arg, "csv") == 0)
-        format = FORMAT_CSV;
-      else if (g_ascii_strcasecmp (format_arg, "json") == 0)
-        format = FORMAT_JSON;
-      else
-        {
-          g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
-                       "unknown format '%s'; accepted: text, csv, json", format_arg);
-          goto fail;
-        }
-    }
+  if (format_arg && !qv_cli_lattice_format_parse (format_arg, &format, &error))
+    goto fail;
   if (connect_arg)
     {
       if (g_ascii_strcasecmp (connect_arg, "sort") == 0)
@@ -219,7 +194,7 @@ qv_cmd_bands (int argc, char **argv)
       order[i] = (guint) (i % nb);
   path_text = qv_band_path_to_string (path);
 
-  if (format == FORMAT_JSON)
+  if (format == QV_CLI_LATTICE_JSON)
     {
       QvJsonWriter *w = qv_json_writer_new ();
       double m[9];
@@ -284,7 +259,7 @@ qv_cmd_bands (int argc, char **argv)
     }
 
   out = g_string_new (NULL);
-  if (format == FORMAT_TEXT)
+  if (format == QV_CLI_LATTICE_TEXT)
     {
       g_string_append_printf (out, "# quaver bands: %s, %" G_GSIZE_FORMAT " sites, supercell "
                               "[%d %d %d; %d %d %d; %d %d %d] (%" G_GSIZE_FORMAT " cells), lattice %s\n",
@@ -324,7 +299,7 @@ qv_cmd_bands (int argc, char **argv)
     }
   for (gsize k = 0; k < sampling->n_q; k++)
     {
-      const char *sep = format == FORMAT_CSV ? "," : " ";
+      const char *sep = format == QV_CLI_LATTICE_CSV ? "," : " ";
       const char *label = label_at (sampling, k);
       append_num (out, sampling->distance[k], "%.6f");
       for (int i = 0; i < 3; i++)
@@ -332,14 +307,14 @@ qv_cmd_bands (int argc, char **argv)
           g_string_append (out, sep);
           append_num (out, sampling->q[3 * k + i], "%.6f");
         }
-      if (format == FORMAT_CSV)
+      if (format == QV_CLI_LATTICE_CSV)
         g_string_append_printf (out, ",%s", label ? label : "");
       for (gsize b = 0; b < nb; b++)
         {
           g_string_append (out, sep);
           append_num (out, set->wavenumbers[k * nb + order[k * nb + b]], "%.4f");
         }
-      if (format == FORMAT_TEXT && label)
+      if (format == QV_CLI_LATTICE_TEXT && label)
         g_string_append_printf (out, "  # %s", label);
       g_string_append_c (out, '\n');
     }

@@ -46,7 +46,6 @@ static const char dos_tail[] =
   "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.\n"
   "Harmonic phonons are an approximation: validate them before relying on them.";
 
-typedef enum { FORMAT_TEXT, FORMAT_CSV, FORMAT_JSON } Format;
 
 static void
 append_num (GString *s, double v, const char *format)
@@ -79,7 +78,7 @@ qv_cmd_dos (int argc, char **argv)
   int n[3] = { 20, 20, 20 };
   QvDosOptions opt = { QV_DOS_TETRAHEDRON, 0, 0, 0, 0 };
   QvFrequencyUnit unit = QV_FREQUENCY_CM1;
-  Format format = FORMAT_TEXT;
+  QvCliLatticeFormat format = QV_CLI_LATTICE_TEXT;
   QvProgress progress = { qv_cli_progress, NULL };
   int status = QV_EXIT_OK;
   double per_cm1;    /* the unit per cm⁻¹ */
@@ -102,37 +101,14 @@ qv_cmd_dos (int argc, char **argv)
   g_option_context_set_summary (context, "Phonon density of states on a q mesh from a supercell Hessian.");
   description = g_strconcat (dos_head, qv_cli_lattice_help, dos_tail, NULL);
   g_option_context_set_description (context, description);
-  qv_cli_lattice_options_init (&lo);
-  qv_cli_lattice_add_entries (context, &lo);
-  g_option_context_add_main_entries (context, entries, NULL);
-  if (!g_option_context_parse (context, &argc, &argv, &error))
+  if (!qv_cli_lattice_parse ("dos", context, &lo, entries, &argc, &argv, &error))
     goto fail;
-  if (argc != 2)
-    {
-      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, argc < 2
-                   ? "dos needs the PRIMITIVE cell (extended XYZ with Lattice=\"…\")"
-                   : "dos takes one PRIMITIVE file, got %d", argc - 1);
-      goto fail;
-    }
   if ((mesh_arg && !qv_phonon_mesh_parse (mesh_arg, n, &error))
       || (method_arg && !qv_dos_method_parse (method_arg, &opt.method, &error))
       || (unit_arg && !qv_frequency_unit_parse (unit_arg, &unit, &error)))
     goto fail;
-  if (format_arg)
-    {
-      if (g_ascii_strcasecmp (format_arg, "text") == 0)
-        format = FORMAT_TEXT;
-      else if (g_ascii_strcasecmp (format_arg, "csv") == 0)
-        format = FORMAT_CSV;
-      else if (g_ascii_strcasecmp (format_arg, "json") == 0)
-        format = FORMAT_JSON;
-      else
-        {
-          g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
-                       "unknown format '%s'; accepted: text, csv, json", format_arg);
-          goto fail;
-        }
-    }
+  if (format_arg && !qv_cli_lattice_format_parse (format_arg, &format, &error))
+    goto fail;
   per_cm1 = qv_frequency_from_wavenumber (1.0, unit);
   if (sigma != -1 && !(sigma > 0 && isfinite (sigma)))
     {
@@ -172,7 +148,7 @@ qv_cmd_dos (int argc, char **argv)
   if (dos == NULL)
     goto fail;
 
-  if (format == FORMAT_JSON)
+  if (format == QV_CLI_LATTICE_JSON)
     {
       QvJsonWriter *w = qv_json_writer_new ();
       g_autofree double *x = g_new (double, dos->n_points);
@@ -228,7 +204,7 @@ qv_cmd_dos (int argc, char **argv)
     }
 
   out = g_string_new (NULL);
-  if (format == FORMAT_TEXT)
+  if (format == QV_CLI_LATTICE_TEXT)
     {
       g_string_append_printf (out, "# quaver dos: %s, %" G_GSIZE_FORMAT " sites, mesh %dx%dx%d "
                               "(Gamma-centred, %" G_GSIZE_FORMAT " q), method %s", argv[1],
@@ -261,7 +237,7 @@ qv_cmd_dos (int argc, char **argv)
     }
   for (gsize b = 0; b < dos->n_points; b++)
     {
-      const char *sep = format == FORMAT_CSV ? "," : " ";
+      const char *sep = format == QV_CLI_LATTICE_CSV ? "," : " ";
       append_num (out, dos->omega[b] * per_cm1, "%.6f");
       g_string_append (out, sep);
       append_num (out, dos->total[b] / per_cm1, "%.8e");

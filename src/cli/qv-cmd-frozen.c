@@ -105,18 +105,8 @@ qv_cmd_frozen (int argc, char **argv)
   g_option_context_set_summary (context, "A supercell displaced along one lattice mode at a commensurate q.");
   description = g_strconcat (frozen_description_head, qv_cli_lattice_help, frozen_description_tail, NULL);
   g_option_context_set_description (context, description);
-  qv_cli_lattice_options_init (&lo);
-  qv_cli_lattice_add_entries (context, &lo);
-  g_option_context_add_main_entries (context, entries, NULL);
-  if (!g_option_context_parse (context, &argc, &argv, &error))
+  if (!qv_cli_lattice_parse ("frozen-phonon", context, &lo, entries, &argc, &argv, &error))
     goto fail;
-  if (argc != 2)
-    {
-      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, argc < 2
-                   ? "frozen-phonon needs the PRIMITIVE cell (extended XYZ with Lattice=\"…\")"
-                   : "frozen-phonon takes one PRIMITIVE file, got %d", argc - 1);
-      goto fail;
-    }
   if (q_arg == NULL || branch == 0)
     {
       g_set_error_literal (&error, QV_ERROR, QV_ERROR_USAGE,

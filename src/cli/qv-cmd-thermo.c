@@ -63,7 +63,6 @@ static const char thermo_tail[] =
   "3 output not written.\n"
   "Harmonic phonons are an approximation: validate them before relying on them.";
 
-typedef enum { FORMAT_TEXT, FORMAT_CSV, FORMAT_JSON } Format;
 
 static void
 append_num (GString *s, double v, const char *format)
@@ -188,7 +187,7 @@ qv_cmd_thermo (int argc, char **argv)
   g_autofree Sound *sound = NULL;
   gsize n_t, n_dirs = 0, n_sites, z_units;
   int n[3] = { 20, 20, 20 };
-  Format format = FORMAT_TEXT;
+  QvCliLatticeFormat format = QV_CLI_LATTICE_TEXT;
   QvProgress progress = { qv_cli_progress, NULL };
   int status = QV_EXIT_OK;
   double per_mol, kj = 0;
@@ -211,18 +210,8 @@ qv_cmd_thermo (int argc, char **argv)
   g_option_context_set_summary (context, "Harmonic thermal properties of a crystal from a supercell Hessian.");
   description = g_strconcat (thermo_head, qv_cli_lattice_help, thermo_tail, NULL);
   g_option_context_set_description (context, description);
-  qv_cli_lattice_options_init (&lo);
-  qv_cli_lattice_add_entries (context, &lo);
-  g_option_context_add_main_entries (context, entries, NULL);
-  if (!g_option_context_parse (context, &argc, &argv, &error))
+  if (!qv_cli_lattice_parse ("thermo", context, &lo, entries, &argc, &argv, &error))
     goto fail;
-  if (argc != 2)
-    {
-      g_set_error (&error, QV_ERROR, QV_ERROR_USAGE, argc < 2
-                   ? "thermo needs the PRIMITIVE cell (extended XYZ with Lattice=\"…\")"
-                   : "thermo takes one PRIMITIVE file, got %d", argc - 1);
-      goto fail;
-    }
   if (is_molecule (argv[1]))
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
@@ -233,21 +222,8 @@ qv_cmd_thermo (int argc, char **argv)
     }
   if (mesh_arg && !qv_phonon_mesh_parse (mesh_arg, n, &error))
     goto fail;
-  if (format_arg)
-    {
-      if (g_ascii_strcasecmp (format_arg, "text") == 0)
-        format = FORMAT_TEXT;
-      else if (g_ascii_strcasecmp (format_arg, "csv") == 0)
-        format = FORMAT_CSV;
-      else if (g_ascii_strcasecmp (format_arg, "json") == 0)
-        format = FORMAT_JSON;
-      else
-        {
-          g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
-                       "unknown format '%s'; accepted: text, csv, json", format_arg);
-          goto fail;
-        }
-    }
+  if (format_arg && !qv_cli_lattice_format_parse (format_arg, &format, &error))
+    goto fail;
   if (!(t_min >= 0 && t_max >= t_min && t_max <= 1e5 && t_step > 0 && (t_max - t_min) / t_step <= 100000))
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
@@ -255,7 +231,7 @@ qv_cmd_thermo (int argc, char **argv)
                    "giving at most 100000 temperatures (got %g, %g, %g)", t_min, t_max, t_step);
       goto fail;
     }
-  if (sound_arg && format == FORMAT_CSV)
+  if (sound_arg && format == QV_CLI_LATTICE_CSV)
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
                    "--sound is not a column of the temperature table: use --format text or json");
@@ -334,7 +310,7 @@ qv_cmd_thermo (int argc, char **argv)
   per_mol = qv_thermal_kj_per_mol (z_units);   /* eV/cell → kJ/mol */
   kj = per_mol;
 
-  if (format == FORMAT_JSON)
+  if (format == QV_CLI_LATTICE_JSON)
     {
       QvJsonWriter *w = qv_json_writer_new ();
       g_autofree double *col = g_new (double, n_t);
@@ -439,7 +415,7 @@ qv_cmd_thermo (int argc, char **argv)
     }
 
   out = g_string_new (NULL);
-  if (format == FORMAT_TEXT)
+  if (format == QV_CLI_LATTICE_TEXT)
     {
       g_string_append_printf (out, "# quaver thermo: %s, %" G_GSIZE_FORMAT " sites, formula unit %s "
                               "(%" G_GSIZE_FORMAT " per cell), mesh %dx%dx%d (Gamma-centred, %"
@@ -487,13 +463,13 @@ qv_cmd_thermo (int argc, char **argv)
       {
         static const char *names[] = { "U11", "U22", "U33", "U12", "U13", "U23" };
         for (int c = 0; c < 6; c++)
-          g_string_append_printf (out, "%s%s_%s%" G_GSIZE_FORMAT "_A^2", format == FORMAT_CSV ? "," : " ",
+          g_string_append_printf (out, "%s%s_%s%" G_GSIZE_FORMAT "_A^2", format == QV_CLI_LATTICE_CSV ? "," : " ",
                                   names[c], symbol (lattice->map->z[s]), s + 1);
       }
   g_string_append_c (out, '\n');
   for (gsize i = 0; i < n_t; i++)
     {
-      const char *sep = format == FORMAT_CSV ? "," : " ";
+      const char *sep = format == QV_CLI_LATTICE_CSV ? "," : " ";
       double row[10] = { t[i], th->free_energy[i] * kj, th->energy[i] * kj, th->entropy[i] * kj * 1000,
                          th->heat_capacity[i] * kj * 1000, th->zpe[i] * kj, th->free_energy[i],
                          th->energy[i], th->entropy[i] * 1000, th->heat_capacity[i] * 1000 };
