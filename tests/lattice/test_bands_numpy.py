@@ -26,6 +26,10 @@ import numpy as np
 import periodictable
 import scipy.constants as sc
 
+sys.dont_write_bytecode = True
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from spring_crystal import SpringCrystal  # noqa: E402
+
 QUAVER = os.environ.get("QUAVER") or os.path.join(
     os.environ.get("QV_BUILD_ROOT", "/work/main/build"), "src", "cli", "quaver")
 
@@ -56,35 +60,9 @@ def check(condition, message):
         print("FAIL:", message)
 
 
-def spring(delta, k1, k2):
-    """3x3 spring matrix between sites k1, k2 at separation delta, or None."""
-    length = np.linalg.norm(delta)
-    for dist, pair, cl, ct in SHELLS:
-        if abs(length - dist) > 1e-6:
-            continue
-        if pair is not None and tuple(sorted((k1, k2))) != pair:
-            continue
-        e = np.outer(delta, delta) / length ** 2
-        return cl * e + ct * (np.eye(3) - e)
-    return None
-
-
-def d_of_q(qcart):
-    """Dynamical matrix of the infinite crystal, from the springs."""
-    d = np.zeros((6, 6), complex)
-    for k in range(2):
-        for k2 in range(2):
-            for n in np.ndindex(5, 5, 5):
-                r = (np.array(n) - 2) @ CELL
-                delta = r + TAU[k2] - TAU[k]
-                if np.linalg.norm(delta) < 1e-9:
-                    continue
-                kmat = spring(delta, k, k2)
-                if kmat is None:
-                    continue
-                d[3 * k:3 * k + 3, 3 * k2:3 * k2 + 3] -= kmat * np.exp(1j * qcart @ delta) / np.sqrt(MASSES[k] * MASSES[k2])
-                d[3 * k:3 * k + 3, 3 * k:3 * k + 3] += kmat / MASSES[k]
-    return d
+MODEL = SpringCrystal(CELL, TAU, MASSES, SHELLS)
+d_of_q = MODEL.d_of_q       # also used by test_frozen_numpy.py
+hessian = MODEL.hessian
 
 
 def wavenumbers(eigenvalues):
@@ -109,24 +87,6 @@ def supercell(n):
             masses.append(MASSES[k])
             pos.append(np.array(l) @ CELL + TAU[k])
     return species, np.array(masses), np.array(pos), CELL * n
-
-
-def hessian(sites, pos, scell):
-    """Exact Hessian of the periodic supercell, eV/A^2."""
-    ns = len(pos)
-    h = np.zeros((3 * ns, 3 * ns))
-    for i in range(ns):
-        for j in range(i + 1, ns):
-            for n in np.ndindex(3, 3, 3):
-                delta = pos[j] + (np.array(n) - 1) @ scell - pos[i]
-                kmat = spring(delta, sites[i], sites[j])
-                if kmat is None:
-                    continue
-                h[3 * i:3 * i + 3, 3 * i:3 * i + 3] += kmat
-                h[3 * j:3 * j + 3, 3 * j:3 * j + 3] += kmat
-                h[3 * i:3 * i + 3, 3 * j:3 * j + 3] -= kmat
-                h[3 * j:3 * j + 3, 3 * i:3 * i + 3] -= kmat
-    return h
 
 
 def run(args, expect=0):
