@@ -659,3 +659,60 @@ def lj55_argon():
     x = x - x.mean(axis=0)
     x = x * LJ_SIGMA
     return ["Ar"] * len(x), x, e
+
+
+def direction(alpha_deg, beta_deg):
+    """Unit vector at polar angle alpha and azimuth beta (degrees)."""
+    a, b = np.deg2rad(alpha_deg), np.deg2rad(beta_deg)
+    return np.array([np.sin(a) * np.cos(b), np.sin(a) * np.sin(b), np.cos(a)])
+
+
+def hydrazine_like():
+    """N2H4-like (invented geometry and force field), 6 atoms: 5 stretches,
+    6 bends and 1 torsion for 12 vibrations. Returns symbols, x, coords, F."""
+    n1 = np.zeros(3)
+    n2 = np.array([0.0, 0.0, 1.45])
+    x = np.array([n1, n2,
+                  n1 + 1.02 * direction(109.0, 0.0),
+                  n1 + 1.015 * direction(108.0, 112.0),
+                  n2 + 1.02 * direction(73.0, 95.0),
+                  n2 + 1.025 * direction(70.0, 205.0)])
+    x = x @ rotation_matrix([1.0, 2.0, -0.5], 1.1).T
+    coords = [("stretch", 0, 1), ("stretch", 0, 2), ("stretch", 0, 3),
+              ("stretch", 1, 4), ("stretch", 1, 5),
+              ("bend", 2, 0, 1), ("bend", 3, 0, 1), ("bend", 2, 0, 3),
+              ("bend", 4, 1, 0), ("bend", 5, 1, 0), ("bend", 4, 1, 5),
+              ("torsion", 2, 0, 1, 4)]
+    F = np.diag([26.0, 40.0, 39.0, 40.5, 41.0, 3.6, 3.4, 3.0, 3.5, 3.7, 2.9, 0.25])
+    for i, j, v in [(0, 1, 0.8), (0, 3, 0.7), (1, 2, 0.3), (3, 4, 0.35),
+                    (5, 6, 0.2), (8, 9, 0.25), (1, 5, 0.4), (4, 8, -0.3), (11, 5, 0.05)]:
+        F[i, j] = F[j, i] = v
+    return ["N", "N", "H", "H", "H", "H"], x, coords, F
+
+
+def methylamine_like():
+    """CH3NH2-like (invented geometry and force field), 7 atoms, with the
+    redundant set of all six bends at the tetrahedral carbon: 6 stretches,
+    6 + 3 bends, 1 torsion = 16 coordinates for 15 vibrations. Returns
+    symbols, x, coords, F (its couplings from a seeded generator)."""
+    c = np.zeros(3)
+    nn = np.array([0.0, 0.0, 1.47])
+    x = np.array([c, nn,
+                  c + 1.09 * direction(110.0, 0.0),
+                  c + 1.095 * direction(109.0, 121.0),
+                  c + 1.092 * direction(111.0, 238.0),
+                  nn + 1.015 * direction(68.0, 60.0),
+                  nn + 1.017 * direction(70.0, 175.0)])
+    x = x @ rotation_matrix([-0.3, 0.2, 1.0], 0.4).T + np.array([1.0, 0.5, -0.7])
+    coords = [("stretch", 0, 1), ("stretch", 0, 2), ("stretch", 0, 3), ("stretch", 0, 4),
+              ("stretch", 1, 5), ("stretch", 1, 6),
+              ("bend", 1, 0, 2), ("bend", 1, 0, 3), ("bend", 1, 0, 4),
+              ("bend", 2, 0, 3), ("bend", 2, 0, 4), ("bend", 3, 0, 4),
+              ("bend", 5, 1, 0), ("bend", 6, 1, 0), ("bend", 5, 1, 6),
+              ("torsion", 2, 0, 1, 5)]
+    rng = np.random.default_rng(7)
+    F = np.diag([28.0, 31.0, 30.5, 31.5, 40.0, 40.5,
+                 4.0, 4.1, 3.9, 3.3, 3.4, 3.2, 3.6, 3.5, 3.0, 0.2])
+    C = rng.uniform(-0.15, 0.15, size=F.shape)
+    F += 0.5 * (C + C.T) * (np.abs(np.subtract.outer(np.arange(16), np.arange(16))) < 4)
+    return ["C", "N", "H", "H", "H", "H", "H"], x, coords, F

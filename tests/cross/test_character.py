@@ -308,61 +308,21 @@ def check_molecule(name, symbols, x, ff_coords, F):
     return doc
 
 
-def direction(alpha_deg, beta_deg):
-    a, b = np.deg2rad(alpha_deg), np.deg2rad(beta_deg)
-    return np.array([np.sin(a) * np.cos(b), np.sin(a) * np.sin(b), np.cos(a)])
-
-
 # (a) water-like (qvtest.water_like): 2 stretches + 1 bend, non-redundant,
 # so P = I and the comparison is with the force field's own F.
 symbols, x, coords, F = q.water_like()
 chk.ok(len(perceive(symbols, np.asarray(x))) == 3, "water-like: 3 perceived coordinates = 3N-6")
 check_molecule("water-like", symbols, x, coords, F)
 
-# (b) hydrazine-like N2H4 of test_gf.py (invented): its force field has one
+# (b) hydrazine-like N2H4 of qvtest.py, as in test_gf.py (invented): its force field has one
 # torsion; the perceived set has all four H-N-N-H (15 for 12 vibrations).
-n1 = np.zeros(3)
-n2 = np.array([0.0, 0.0, 1.45])
-xh = np.array([n1, n2,
-               n1 + 1.02 * direction(109.0, 0.0),
-               n1 + 1.015 * direction(108.0, 112.0),
-               n2 + 1.02 * direction(73.0, 95.0),
-               n2 + 1.025 * direction(70.0, 205.0)])
-xh = xh @ q.rotation_matrix([1.0, 2.0, -0.5], 1.1).T
-coords_h = [("stretch", 0, 1), ("stretch", 0, 2), ("stretch", 0, 3),
-            ("stretch", 1, 4), ("stretch", 1, 5),
-            ("bend", 2, 0, 1), ("bend", 3, 0, 1), ("bend", 2, 0, 3),
-            ("bend", 4, 1, 0), ("bend", 5, 1, 0), ("bend", 4, 1, 5),
-            ("torsion", 2, 0, 1, 4)]
-Fh = np.diag([26.0, 40.0, 39.0, 40.5, 41.0, 3.6, 3.4, 3.0, 3.5, 3.7, 2.9, 0.25])
-for i, j, v in [(0, 1, 0.8), (0, 3, 0.7), (1, 2, 0.3), (3, 4, 0.35),
-                (5, 6, 0.2), (8, 9, 0.25), (1, 5, 0.4), (4, 8, -0.3), (11, 5, 0.05)]:
-    Fh[i, j] = Fh[j, i] = v
-check_molecule("hydrazine-like", ["N", "N", "H", "H", "H", "H"], xh, coords_h, Fh)
+xh_symbols, xh, coords_h, Fh = q.hydrazine_like()
+check_molecule("hydrazine-like", xh_symbols, xh, coords_h, Fh)
 
-# (c) methylamine-like CH3NH2 of test_gf.py (invented), its force field
+# (c) methylamine-like CH3NH2 of qvtest.py, as in test_gf.py (invented), its force field
 # itself redundant (all six angles at C); 21 perceived coordinates.
-c = np.zeros(3)
-nn = np.array([0.0, 0.0, 1.47])
-xm = np.array([c, nn,
-               c + 1.09 * direction(110.0, 0.0),
-               c + 1.095 * direction(109.0, 121.0),
-               c + 1.092 * direction(111.0, 238.0),
-               nn + 1.015 * direction(68.0, 60.0),
-               nn + 1.017 * direction(70.0, 175.0)])
-xm = xm @ q.rotation_matrix([-0.3, 0.2, 1.0], 0.4).T + np.array([1.0, 0.5, -0.7])
-coords_m = [("stretch", 0, 1), ("stretch", 0, 2), ("stretch", 0, 3), ("stretch", 0, 4),
-            ("stretch", 1, 5), ("stretch", 1, 6),
-            ("bend", 1, 0, 2), ("bend", 1, 0, 3), ("bend", 1, 0, 4),
-            ("bend", 2, 0, 3), ("bend", 2, 0, 4), ("bend", 3, 0, 4),
-            ("bend", 5, 1, 0), ("bend", 6, 1, 0), ("bend", 5, 1, 6),
-            ("torsion", 2, 0, 1, 5)]
-rng = np.random.default_rng(7)
-Fm = np.diag([28.0, 31.0, 30.5, 31.5, 40.0, 40.5,
-              4.0, 4.1, 3.9, 3.3, 3.4, 3.2, 3.6, 3.5, 3.0, 0.2])
-C = rng.uniform(-0.15, 0.15, size=Fm.shape)
-Fm += 0.5 * (C + C.T) * (np.abs(np.subtract.outer(np.arange(16), np.arange(16))) < 4)
-check_molecule("methylamine-like", ["C", "N", "H", "H", "H", "H", "H"], xm, coords_m, Fm)
+xm_symbols, xm, coords_m, Fm = q.methylamine_like()
+check_molecule("methylamine-like", xm_symbols, xm, coords_m, Fm)
 
 # (d) formaldehyde-like H2C=O, planar, unequal C-H (invented geometry and
 # constants): 3 stretches, 3 bends (one redundancy in the plane) and the
@@ -380,7 +340,7 @@ check_molecule("formaldehyde-like", ["C", "O", "H", "H"], xf, coords_f, Ff)
 
 # (e) ammonia-like NH3, C3v (invented): 3 stretches + 3 bends = 3N-6, with
 # two degenerate pairs (E), whose make-up is compared summed over each pair
-xa = np.array([[0.0, 0.0, 0.0]] + [1.012 * direction(112.0, 120.0 * i + 10.0) for i in range(3)])
+xa = np.array([[0.0, 0.0, 0.0]] + [1.012 * q.direction(112.0, 120.0 * i + 10.0) for i in range(3)])
 xa = xa @ q.rotation_matrix([0.7, -0.2, 0.5], 0.9).T
 coords_a = [("stretch", 0, 1), ("stretch", 0, 2), ("stretch", 0, 3),
             ("bend", 1, 0, 2), ("bend", 1, 0, 3), ("bend", 2, 0, 3)]

@@ -100,54 +100,14 @@ check_molecule("water-like-d2", symbols, x, coords, F,
 
 # (b) hydrazine-like N2H4, gauche, non-planar, no symmetry (invented
 # geometry): 5 stretches, 6 bends, 1 torsion = 12 = 3N-6, non-redundant
-def direction(alpha_deg, beta_deg):
-    a, b = np.deg2rad(alpha_deg), np.deg2rad(beta_deg)
-    return np.array([np.sin(a) * np.cos(b), np.sin(a) * np.sin(b), np.cos(a)])
-
-
-n1 = np.zeros(3)
-n2 = np.array([0.0, 0.0, 1.45])
-xh = np.array([n1, n2,
-               n1 + 1.02 * direction(109.0, 0.0),
-               n1 + 1.015 * direction(108.0, 112.0),
-               n2 + 1.02 * direction(73.0, 95.0),
-               n2 + 1.025 * direction(70.0, 205.0)])
-xh = xh @ q.rotation_matrix([1.0, 2.0, -0.5], 1.1).T
-coords_h = [("stretch", 0, 1), ("stretch", 0, 2), ("stretch", 0, 3),
-            ("stretch", 1, 4), ("stretch", 1, 5),
-            ("bend", 2, 0, 1), ("bend", 3, 0, 1), ("bend", 2, 0, 3),
-            ("bend", 4, 1, 0), ("bend", 5, 1, 0), ("bend", 4, 1, 5),
-            ("torsion", 2, 0, 1, 4)]
-Fh = np.diag([26.0, 40.0, 39.0, 40.5, 41.0, 3.6, 3.4, 3.0, 3.5, 3.7, 2.9, 0.25])
-for i, j, v in [(0, 1, 0.8), (0, 3, 0.7), (1, 2, 0.3), (3, 4, 0.35),
-                (5, 6, 0.2), (8, 9, 0.25), (1, 5, 0.4), (4, 8, -0.3), (11, 5, 0.05)]:
-    Fh[i, j] = Fh[j, i] = v
-check_molecule("hydrazine-like", ["N", "N", "H", "H", "H", "H"], xh, coords_h, Fh)
+symbols_h, xh, coords_h, Fh = q.hydrazine_like()
+check_molecule("hydrazine-like", symbols_h, xh, coords_h, Fh)
 
 # (c) methylamine-like CH3NH2 (invented geometry), 7 atoms, with the
 # redundant set of all six bends at the tetrahedral carbon: 6 stretches,
 # 6 + 3 bends, 1 torsion = 16 coordinates for 15 vibrations (one redundancy)
-c = np.zeros(3)
-nn = np.array([0.0, 0.0, 1.47])
-xm = np.array([c, nn,
-               c + 1.09 * direction(110.0, 0.0),
-               c + 1.095 * direction(109.0, 121.0),
-               c + 1.092 * direction(111.0, 238.0),
-               nn + 1.015 * direction(68.0, 60.0),
-               nn + 1.017 * direction(70.0, 175.0)])
-xm = xm @ q.rotation_matrix([-0.3, 0.2, 1.0], 0.4).T + np.array([1.0, 0.5, -0.7])
-coords_m = [("stretch", 0, 1), ("stretch", 0, 2), ("stretch", 0, 3), ("stretch", 0, 4),
-            ("stretch", 1, 5), ("stretch", 1, 6),
-            ("bend", 1, 0, 2), ("bend", 1, 0, 3), ("bend", 1, 0, 4),
-            ("bend", 2, 0, 3), ("bend", 2, 0, 4), ("bend", 3, 0, 4),
-            ("bend", 5, 1, 0), ("bend", 6, 1, 0), ("bend", 5, 1, 6),
-            ("torsion", 2, 0, 1, 5)]
-rng = np.random.default_rng(7)
-Fm = np.diag([28.0, 31.0, 30.5, 31.5, 40.0, 40.5,
-              4.0, 4.1, 3.9, 3.3, 3.4, 3.2, 3.6, 3.5, 3.0, 0.2])
-C = rng.uniform(-0.15, 0.15, size=Fm.shape)
-Fm += 0.5 * (C + C.T) * (np.abs(np.subtract.outer(np.arange(16), np.arange(16))) < 4)
-check_molecule("methylamine-like", ["C", "N", "H", "H", "H", "H", "H"], xm, coords_m, Fm,
+symbols_m, xm, coords_m, Fm = q.methylamine_like()
+check_molecule("methylamine-like", symbols_m, xm, coords_m, Fm,
                n_redundant=1)
 
 chk.finish("GF eigenvalues vs quaver for a bent triatomic (and its d2 isotopologue), "
