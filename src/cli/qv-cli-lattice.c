@@ -76,10 +76,7 @@ qv_cli_lattice_free (QvCliLattice *lattice)
 {
   if (lattice == NULL)
     return;
-  qv_nonanalytic_free (lattice->na);     /* it reads fc */
-  qv_force_constants_free (lattice->fc);
-  qv_supercell_map_free (lattice->map);
-  qv_structure_free (lattice->primitive);
+  qv_crystal_free (lattice->crystal);    /* the other members are its own */
   g_free (lattice);
 }
 
@@ -116,7 +113,7 @@ qv_cli_lattice_load (const char *command, const QvCliLatticeOptions *o,
                      const char *primitive_path, GError **error)
 {
   g_autoptr(QvCliLattice) lat = g_new0 (QvCliLattice, 1);
-  g_autoptr(QvStructure) supercell = NULL;
+  g_autoptr(QvStructure) primitive = NULL, supercell = NULL;
   g_autoptr(QvHessian) h = NULL;
   QvHessianLayout layout = QV_HESSIAN_LAYOUT_AUTO;
   int matrix[3][3];
@@ -152,21 +149,24 @@ qv_cli_lattice_load (const char *command, const QvCliLatticeOptions *o,
       return NULL;
     }
 
-  lat->primitive = qv_cli_lattice_read_structure (command, primitive_path, "primitive cell", error);
-  if (lat->primitive == NULL)
+  primitive = qv_cli_lattice_read_structure (command, primitive_path, "primitive cell", error);
+  if (primitive == NULL)
     return NULL;
   if (o->supercell_structure)
     supercell = qv_cli_lattice_read_structure (command, o->supercell_structure, "supercell", error);
   else
-    supercell = qv_supercell_build (lat->primitive, matrix, error);
+    supercell = qv_supercell_build (primitive, matrix, error);
   if (supercell == NULL)
     return NULL;
-  lat->map = qv_supercell_map (lat->primitive, supercell, o->tolerance, error);
-  if (lat->map == NULL)
+  lat->crystal = qv_crystal_new (primitive, supercell, o->tolerance, error);
+  if (lat->crystal == NULL)
     {
-      g_prefix_error (error, "%s: ", o->supercell_structure ? o->supercell_structure : primitive_path);
+      g_prefix_error (error, "%s: ", o->supercell_structure ? o->supercell_structure
+                      : primitive_path);
       return NULL;
     }
+  lat->primitive = lat->crystal->primitive;
+  lat->map = lat->crystal->map;
   if (have_matrix && memcmp (matrix, lat->map->matrix, sizeof matrix) != 0)
     {
       const QvSupercellMap *map = lat->map;
@@ -182,22 +182,19 @@ qv_cli_lattice_load (const char *command, const QvCliLatticeOptions *o,
   if (h == NULL)
     return NULL;
   qv_hessian_scale (h, qv_hessian_unit_to_ev_a2 (lat->unit));
-  lat->fc = qv_force_constants_new (lat->map, h, error);
-  if (lat->fc == NULL)
+  if (!qv_crystal_set_hessian (lat->crystal, h, !o->no_sum_rule, error))
     {
       g_prefix_error (error, "%s: ", o->hessian);
       return NULL;
     }
-  if (qv_force_constants_periodicity (lat->fc) > 1e-3)
+  lat->fc = lat->crystal->fc;
+  lat->row_sum = lat->crystal->row_sum;
+  memcpy (lat->before, lat->crystal->before, sizeof lat->before);
+  if (lat->crystal->periodicity > 1e-3)
     g_printerr ("quaver: note: %s departs from the crystal's translation symmetry by %.2g "
                 "(largest difference between equivalent pairs / largest element); the force "
                 "constants average over the equivalent pairs\n", o->hessian,
-                qv_force_constants_periodicity (lat->fc));
-  lat->before[0] = lat->before[1] = lat->before[2] = NAN;
-  if (!o->no_sum_rule)
-    lat->row_sum = qv_force_constants_apply_sum_rule (lat->fc, lat->before);
-  else
-    qv_force_constants_gamma_acoustic (lat->fc, lat->before);
+                lat->crystal->periodicity);
   if (fabs (lat->before[0]) > 10 || fabs (lat->before[2]) > 10)
     g_printerr ("quaver: note: the acoustic modes at Gamma are at %.1f, %.1f, %.1f cm^-1 %s; "
                 "tens of cm^-1 mean the Hessian or the geometry is not converged (or the "
@@ -211,12 +208,12 @@ qv_cli_lattice_load (const char *command, const QvCliLatticeOptions *o,
       g_autoptr(QvBornCharges) born = qv_born_charges_read_file (o->born, error);
       if (born == NULL)
         return NULL;
-      lat->na = qv_nonanalytic_new (lat->fc, born->n_atoms, born->born, born->epsilon, error);
-      if (lat->na == NULL)
+      if (!qv_crystal_set_born (lat->crystal, born->n_atoms, born->born, born->epsilon, error))
         {
           g_prefix_error (error, "%s: ", o->born);
           return NULL;
         }
+      lat->na = lat->crystal->na;
       if (qv_nonanalytic_neutrality (lat->na) > 1e-3)
         g_printerr ("quaver: note: the Born charges in %s did not add up to zero; %.3g e was "
                     "removed from each element (common practice)\n", o->born,

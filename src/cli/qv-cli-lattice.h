@@ -5,6 +5,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #pragma once
 #include <glib.h>
+#include "qv-crystal.h"
 #include "qv-force-constants.h"
 #include "qv-hessian-file.h"
 #include "qv-nonanalytic.h"
@@ -56,6 +57,7 @@ gboolean qv_cli_lattice_format_parse (const char *text, QvCliLatticeFormat *form
                                       GError **error);
 
 typedef struct {
+  QvCrystal *crystal;        /* owns what the members below point to */
   QvStructure *primitive;
   QvSupercellMap *map;
   QvForceConstants *fc;

@@ -172,7 +172,12 @@ def main():
                 a = np.array([pt["wavenumbers"] for pt in sorted_doc["points"]])
                 b = np.sort(np.array([pt["wavenumbers"] for pt in doc["points"]]), axis=1)
                 check(np.all(np.diff(a, axis=1) >= 0), "--connect sort is ascending")
-                check(np.max(np.abs(a - b)) < 1e-9, "--connect sort vs overlap: %.3g" % np.max(np.abs(a - b)))
+                # compared as signed omega^2 relative to the largest: the
+                # acoustic zeros at Gamma are sqrt(rounding noise), a few
+                # 1e-6 cm^-1 that differ with the thread count
+                a2, b2 = a * np.abs(a), b * np.abs(b)
+                gap = np.max(np.abs(a2 - b2)) / np.max(np.abs(b2))
+                check(gap < 1e-9, "--connect sort vs overlap: %.3g of the largest omega^2" % gap)
             acoustic = doc["gamma_acoustic_before_sum_rule"]
             check(max(abs(x) for x in acoustic) < 1e-3, "acoustic before the sum rule %s" % acoustic)
 
