@@ -53,6 +53,10 @@ int qv_cmd_table (int argc, char **argv);
 int qv_cmd_bands (int argc, char **argv);
 int qv_cmd_dos (int argc, char **argv);
 int qv_cmd_thermo (int argc, char **argv);
+/* `quaver thermo` of a molecule (qv-cmd-thermo-molecule.c); TRUE when argv
+ * names one (a bundle, XYZ without a cell, --demo or --molecule). */
+int qv_cmd_thermo_molecule (int argc, char **argv);
+gboolean qv_cmd_thermo_is_molecule (int argc, char **argv);
 int qv_cmd_frozen (int argc, char **argv);
 int qv_cmd_spectrum (int argc, char **argv);
 int qv_cmd_compare (int argc, char **argv);

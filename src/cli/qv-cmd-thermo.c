@@ -31,8 +31,8 @@ static const char thermo_head[] =
   "Units: per mole of formula units (kJ/mol, J/(K mol); the formula unit is\n"
   "the primitive cell's composition divided by the greatest common divisor of\n"
   "its element counts) and per primitive cell (eV, meV/K).\n"
-  "A molecule (no cell) is refused: gas-phase thermochemistry of molecules is\n"
-  "not in this version.\n"
+  "A molecule (a bundle, XYZ without a cell, --demo) gets gas-phase\n"
+  "thermochemistry instead: see 'quaver thermo --molecule --help'.\n"
   "\n";
 
 static const char thermo_tail[] =
@@ -59,7 +59,7 @@ static const char thermo_tail[] =
   "  quaver thermo prim.xyz --supercell 4x4x4 -H fc.npy -u eV/A^2 --t-max 1000 --t-step 50\n"
   "  quaver thermo prim.xyz -S sc.xyz -H sc.hess -u eV/A^2 --adp --sound \"1 0 0; 1 1 1\" -f json\n"
   "\n"
-  "Exit status: 0 success, 1 usage error (also for a molecule), 2 bad input,\n"
+  "Exit status: 0 success, 1 usage error, 2 bad input,\n"
   "3 output not written.\n"
   "Harmonic phonons are an approximation: validate them before relying on them.";
 
@@ -205,6 +205,8 @@ qv_cmd_thermo (int argc, char **argv)
     { NULL }
   };
 
+  if (qv_cmd_thermo_is_molecule (argc, argv))
+    return qv_cmd_thermo_molecule (argc, argv);
   g_set_prgname ("quaver thermo");
   context = g_option_context_new ("PRIMITIVE");
   g_option_context_set_summary (context, "Harmonic thermal properties of a crystal from a supercell Hessian.");
@@ -215,9 +217,8 @@ qv_cmd_thermo (int argc, char **argv)
   if (is_molecule (argv[1]))
     {
       g_set_error (&error, QV_ERROR, QV_ERROR_USAGE,
-                   "%s is a molecule (no cell): gas-phase thermochemistry of molecules is not in "
-                   "this version of quaver; 'thermo' computes crystals (extended XYZ with "
-                   "Lattice=\"…\" and a supercell Hessian)", argv[1]);
+                   "%s is a molecule (no cell), but these options are a crystal's; see "
+                   "'quaver thermo --molecule --help' for a molecule's", argv[1]);
       goto fail;
     }
   if (mesh_arg && !qv_phonon_mesh_parse (mesh_arg, n, &error))
