@@ -4,6 +4,7 @@
 #include <string.h>
 #include "qv-error.h"
 #include "qv-hessian.h"
+#include "qv-size.h"
 
 QvHessian *
 qv_hessian_new (gsize n, gboolean zero, GError **error)
@@ -11,12 +12,19 @@ qv_hessian_new (gsize n, gboolean zero, GError **error)
   QvHessian *h;
   gsize count;
 
-  if (n == 0 || n > G_MAXSIZE / n || n * n > G_MAXSIZE / sizeof (double))
+  if (n == 0)
     {
-      g_set_error (error, QV_ERROR, QV_ERROR_LIMIT,
-                   "a %" G_GSIZE_FORMAT "×%" G_GSIZE_FORMAT " matrix cannot be allocated", n, n);
+      g_set_error (error, QV_ERROR, QV_ERROR_LIMIT, "a 0×0 matrix cannot be allocated");
       return NULL;
     }
+  {
+    /* Refuse what cannot fit in physical memory before asking for it: with
+     * overcommit, malloc may say yes and the process is killed later. */
+    g_autofree char *what = g_strdup_printf ("a %" G_GSIZE_FORMAT "×%" G_GSIZE_FORMAT " Hessian",
+                                             n, n);
+    if (!qv_size_check_matrix (n, 0, what, error))
+      return NULL;
+  }
   count = n * n;
   h = g_new0 (QvHessian, 1);
   h->n = n;

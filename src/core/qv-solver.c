@@ -11,6 +11,7 @@
 #include "qv-lanczos.h"
 #include "qv-rigid-body.h"
 #include "qv-solver.h"
+#include "qv-size.h"
 #include "qv-units.h"
 
 /* Extra eigenpairs a range solve computes past the requested ones so a
@@ -161,6 +162,19 @@ solve_all (double *k, gsize n, double *w, GError **error)
     }
   lwork = (lapack_int) MAX (work_query, 1.0 + 6.0 * n + 2.0 * n * n);
   liwork = MAX (iwork_query, (lapack_int) (3 + 5 * n));
+  /* The matrix is already held; its workspace comes on top of it. */
+  {
+    g_autoptr(GError) local = NULL;
+    if (!qv_size_check_matrix (n, (guint64) lwork * sizeof (double)
+                                    + (guint64) liwork * sizeof (lapack_int),
+                               "solving all modes (the matrix and its 2n²+6n+1 workspace)",
+                               &local))
+      {
+        g_set_error (error, QV_ERROR, QV_ERROR_LIMIT,
+                     "%s; ask for the lowest modes only (--lowest K)", local->message);
+        return FALSE;
+      }
+  }
   work = g_try_malloc (sizeof (double) * (gsize) lwork);
   iwork = g_try_malloc (sizeof (lapack_int) * (gsize) liwork);
   if (work == NULL || iwork == NULL)

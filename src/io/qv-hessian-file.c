@@ -997,6 +997,18 @@ job_run (gpointer data)
   return NULL;
 }
 
+/* The matrix of @name, or an error that names the file (a matrix too
+ * large for this machine, say). */
+static QvHessian *
+new_matrix (gsize n, const char *name, GError **error)
+{
+  QvHessian *h = qv_hessian_new (n, FALSE, error);
+
+  if (h == NULL)
+    g_prefix_error (error, "%s: ", name);
+  return h;
+}
+
 /* Runs one or two jobs (the second in its own thread) and makes the
  * matrix. @report: the single job covers all of @data in memory, so errors
  * can be told with their positions; otherwise a NULL return without an
@@ -1022,7 +1034,7 @@ run_jobs (Job *jobs, int n_jobs, const char *data, gsize length, const char *nam
       gsize capacity = layout == QV_HESSIAN_LAYOUT_AUTO || n_jobs > 1
                        ? square_count (n) : layout_count (layout, n);
 
-      hessian = qv_hessian_new (n, FALSE, error);
+      hessian = new_matrix (n, name, error);
       if (hessian == NULL)
         return NULL;
       chunk_init (&jobs[0].chunk, jobs[0].chunk.begin, jobs[0].chunk.end,
@@ -1091,7 +1103,7 @@ run_jobs (Job *jobs, int n_jobs, const char *data, gsize length, const char *nam
     goto out;
   if (n == 0)
     {
-      hessian = qv_hessian_new (dim, FALSE, error);
+      hessian = new_matrix (dim, name, error);
       if (hessian == NULL)
         goto out;
       memcpy (hessian->data, out0, count0 * sizeof (double));
@@ -1556,7 +1568,7 @@ qv_hessian_read_npy (const char *data, gsize length, const char *name,
       || !npy_check_dimension (&h, name, n, error)
       || !npy_check_data_length (&h, name, length - h.data_offset, error))
     return NULL;
-  hessian = qv_hessian_new (h.dim, FALSE, error);
+  hessian = new_matrix (h.dim, name, error);
   if (hessian == NULL)
     return NULL;
   memcpy (hessian->data, data + h.data_offset, h.dim * h.dim * sizeof (double));
@@ -1641,7 +1653,7 @@ read_npy_fd (int fd, const char *path, guint64 file_size, gsize n, GError **erro
                                                      (guint64) G_MAXSIZE), error))
     return NULL;
 
-  hessian = qv_hessian_new (h.dim, FALSE, error);
+  hessian = new_matrix (h.dim, path, error);
   if (hessian == NULL)
     return NULL;
   bytes = h.dim * h.dim * sizeof (double);

@@ -7,6 +7,7 @@
 #include "qv-error.h"
 #include "qv-hessian-file.h"
 #include "qv-input.h"
+#include "qv-size.h"
 #include "qv-solver.h"
 #include "qv-units.h"
 #include "qv-xyz.h"
@@ -33,6 +34,23 @@ load_bundle (QvInput *input, QvBundle *bundle)
   if (input->hessian)
     input->layout = input->hessian->layout;
   return TRUE;
+}
+
+/* Before reading a Hessian of 3N rows: will it fit in this machine's
+ * memory, with the all-modes solver's workspace when that will run? Says
+ * so naming the geometry, before megabytes of text are parsed. */
+static gboolean
+check_memory (const char *geometry, gsize n_atoms, gboolean all_modes, GError **error)
+{
+  const gsize n = 3 * n_atoms;
+  const guint64 workspace = all_modes ? (guint64) (2.0 * n * n + 6.0 * n + 1.0) * sizeof (double) : 0;
+  g_autofree char *what = g_strdup_printf ("%" G_GSIZE_FORMAT " atoms (a %" G_GSIZE_FORMAT "×%"
+                                           G_GSIZE_FORMAT " Hessian%s)", n_atoms, n, n,
+                                           all_modes ? " and the all-modes solver's workspace" : "");
+  if (qv_size_check_matrix (n, workspace, what, error))
+    return TRUE;
+  g_prefix_error (error, "%s: ", geometry);
+  return FALSE;
 }
 
 static gboolean
@@ -129,6 +147,8 @@ load (QvInput *input, const QvInputOptions *o, GError **error)
                        qv_solver_max_full_dimension ());
           return FALSE;
         }
+      if (!check_memory (o->geometry, input->structure->n_atoms, o->all_modes, error))
+        return FALSE;
       input->hessian = qv_hessian_read_file (o->hessian, 3 * input->structure->n_atoms, layout, error);
       if (input->hessian == NULL)
         return FALSE;
