@@ -784,7 +784,9 @@ parse_atom (const Line *line, GArray *fields, const Header *h, const char *name,
   const Field *f;
 
   split_fields (line, fields);
-  f = &g_array_index (fields, Field, 0);
+  /* the array's data, not &element 0: a blank line has no fields and the
+   * array no storage (offsetting a null pointer is undefined) */
+  f = (const Field *) (void *) fields->data;
   if (c->declared && fields->len != c->total)
     {
       gsize col = fields->len > c->total ? f[c->total].col : line->len + 1;
@@ -988,6 +990,31 @@ read_frame (Lines *lines, const Line *count_line, GArray *fields, const char *na
   return g_steal_pointer (&s);
 }
 
+/* A line that starts with an element symbol and then has three or more
+ * fields, where the next frame's atom count was due. */
+static gboolean
+looks_like_atom_line (const Line *line)
+{
+  const char *p = line->text, *end = line->text + line->len;
+  gsize fields = 0;
+
+  while (p < end && g_ascii_isspace (*p))
+    p++;
+  if (p == end || !g_ascii_isalpha (*p))
+    return FALSE;
+  while (p < end)
+    {
+      while (p < end && g_ascii_isspace (*p))
+        p++;
+      if (p == end)
+        break;
+      fields++;
+      while (p < end && !g_ascii_isspace (*p))
+        p++;
+    }
+  return fields >= 4;
+}
+
 GPtrArray *
 qv_xyz_read_data (const char *data, gsize length, const char *name, GError **error)
 {
@@ -995,6 +1022,7 @@ qv_xyz_read_data (const char *data, gsize length, const char *name, GError **err
   g_autoptr(GArray) fields = g_array_new (FALSE, FALSE, sizeof (Field));
   Lines lines;
   Line line;
+  gsize frame_start = 0;    /* the count line of the frame last read */
 
   g_return_val_if_fail (data != NULL || length == 0, NULL);
   if (name == NULL)
@@ -1016,7 +1044,22 @@ qv_xyz_read_data (const char *data, gsize length, const char *name, GError **err
     }
   while (rest_is_blank (&lines) == 0 && next_line (&lines, &line))
     {
-      QvStructure *s = read_frame (&lines, &line, fields, name, error);
+      QvStructure *s;
+
+      if (frames->len > 0 && looks_like_atom_line (&line))
+        {
+          /* More atom lines than the count announced: say that, rather
+           * than "expected the number of atoms" of a frame nobody meant. */
+          const QvStructure *last = g_ptr_array_index (frames, frames->len - 1);
+          g_autofree char *shown = describe (line.text, line.len);
+          qv_io_error (error, name, line.number, 1,
+                       "an atom line %s after the %" G_GSIZE_FORMAT " atoms the frame's count "
+                       "announced (line %" G_GSIZE_FORMAT "); is the count too small?",
+                       shown, last->n_atoms, frame_start);
+          return NULL;
+        }
+      frame_start = line.number;
+      s = read_frame (&lines, &line, fields, name, error);
 
       if (s == NULL)
         return NULL;
