@@ -15,6 +15,16 @@ qv_io_error (GError **error, const char *file, gsize line, gsize column,
   va_start (args, format);
   message = g_strdup_vprintf (format, args);
   va_end (args);
+  /* Messages quote the offending text, which in a broken or binary file
+   * need not be UTF-8; the terminal and the app's dialogs need it to be
+   * (invalid bytes become U+FFFD). */
+  if (!g_utf8_validate (message, -1, NULL))
+    {
+      char *valid = g_utf8_make_valid (message, -1);
+
+      g_free (message);
+      message = valid;
+    }
 
   if (line > 0 && column > 0)
     g_set_error (error, QV_ERROR, QV_ERROR_INPUT, "%s:%" G_GSIZE_FORMAT ":%" G_GSIZE_FORMAT ": %s",
