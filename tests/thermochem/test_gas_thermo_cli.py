@@ -378,6 +378,63 @@ def small_molecule_checks(tmp):
               "quasi-RRHO S with omega0 200, alpha 2, B_av 2e-44")
 
 
+def precomputed_checks(tmp):
+    """A bundle with precomputed modes (invented water-like triatomic): nine
+    modes, six of them near-zero rigid-body motion left out; sigma 2 from C2v."""
+    pos = [[0.0, 0.0, 0.1173], [0.0, 0.7572, -0.4692], [0.0, -0.7572, -0.4692]]
+    ws = [0.3, -0.8, 1.1, 2.0, -4.5, 6.0, 1595.0, 3657.0, 3756.0]
+    vecs = []
+    rng = np.random.default_rng(7)
+    for k in range(9):
+        vecs.append(list(rng.normal(size=9)))
+    bundle = {"format": "quaver-bundle", "version": 1,
+              "title": "invented water-like triatomic with precomputed modes",
+              "description": "Invented data for the thermochemistry test, not a calculation.",
+              "structure": {"atoms": [{"element": e, "position": p} for e, p in zip("OHH", pos)]},
+              "masses": "isotopic",
+              "modes": {"wavenumbers": ws, "displacements": vecs}}
+    path = os.path.join(tmp, "water-modes.quaver.json")
+    write(path, json.dumps(bundle))
+    got = thermo_json([path, "-T", "400"])
+    if got:
+        check(got["rigid_left_out"] == 6 and got["vibrations_summed"] == 3,
+              "precomputed: 6 rigid left out, 3 summed (%d, %d)" % (got["rigid_left_out"], got["vibrations_summed"]))
+        check(got["symmetry_number"] == 2, "water-like: sigma 2 from C2v")
+        masses = [isotope_mass(e) for e in "OHH"]
+        ref = reference(pos, masses, [1595.0, 3657.0, 3756.0], 400.0, 1e5, 2)
+        compare_totals(got["temperatures"][0], ref, "water-like, precomputed modes")
+        p = run([path])
+        check("rigid-body motion" in p.stdout, "precomputed: the note on rigid-body modes")
+
+
+def format_checks():
+    """The text and CSV tables say what the JSON says."""
+    got = thermo_json([ETHANOL, "--per-mode", "--soft-modes", "quasi-rrho"])
+    if not got:
+        return
+    text = run([ETHANOL, "--per-mode", "--soft-modes", "quasi-rrho"]).stdout.splitlines()
+    rows = {l.split()[0]: [float(x) for x in l.split()[1:]] for l in text
+            if l.split() and l.split()[0] in ("translation", "rotation", "vibration", "electronic", "total")}
+    for term in ("translation", "rotation", "vibration", "total"):
+        for c, key in enumerate(("ZPE", "U", "H", "S", "Cv", "G")):
+            close(rows[term][c], got["temperatures"][0][term][key], 0, 2e-6, "text %s %s" % (term, key))
+    csv = run([ETHANOL, "--per-mode", "--soft-modes", "quasi-rrho", "-f", "csv"]).stdout.splitlines()
+    header = csv[0].split(",")
+    check(header[:3] == ["mode", "wavenumber_cm-1", "thermal_cm-1"], "per-mode csv header %s" % header[:3])
+    col = {h: i for i, h in enumerate(header)}
+    for line, m in zip(csv[1:], got["modes"]):
+        v = line.split(",")
+        check(int(v[0]) == m["index"], "csv mode index")
+        if m["used"]:
+            close(float(v[col["S_J/(K.mol)"]]), m["S"], 0, 2e-6, "csv mode %d S" % m["index"])
+            close(float(v[col["G_kJ/mol"]]), m["G"], 0, 2e-6, "csv mode %d G" % m["index"])
+            close(float(v[col["weight"]]), m["weight"], 0, 1e-4, "csv mode %d weight" % m["index"])
+        else:
+            check(v[1].endswith("i") and v[2] == "", "csv: the imaginary mode is marked and empty")
+    terms = run([ETHANOL, "-f", "csv"]).stdout.splitlines()
+    check(terms[0].startswith("term,T_K,p_Pa,ZPE_kJ/mol") and len(terms) == 6, "term csv shape")
+
+
 def error_checks(tmp):
     out = os.path.join(tmp, "out.txt")
     write(out, "keep me\n")
@@ -413,6 +470,8 @@ def main():
     with tempfile.TemporaryDirectory() as tmp:
         ethanol_checks()
         small_molecule_checks(tmp)
+        precomputed_checks(tmp)
+        format_checks()
         error_checks(tmp)
     if failures:
         print("%d failure(s)" % len(failures))
