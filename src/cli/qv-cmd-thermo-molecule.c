@@ -987,7 +987,7 @@ qv_cmd_thermo_molecule (int argc, char **argv)
   goto out;
 
 fail:
-  status = qv_cli_fail ("thermo", error);
+  status = qv_cli_fail ("thermo --molecule", error);
 out:
   qv_cli_solve_args_clear (&solve);
   g_free (format_arg); g_free (output); g_free (pressure_arg); g_free (state_arg);
