@@ -11,6 +11,7 @@
 #include <glib/gstdio.h>
 #include "qv-config.h"
 #include "qv-error.h"
+#include "qv-output.h"
 #include "qv-output-dir.h"
 
 struct _QvOutputDir {
@@ -111,25 +112,6 @@ writes_before_failure (void)
   return -1;
 }
 
-static gboolean
-write_all (int fd, const char *data, gsize length, int *saved_errno)
-{
-  while (length > 0)
-    {
-      gssize n = write (fd, data, MIN (length, (gsize) G_MAXSSIZE));
-      if (n < 0)
-        {
-          if (errno == EINTR)
-            continue;
-          *saved_errno = errno;
-          return FALSE;
-        }
-      data += n;
-      length -= (gsize) n;
-    }
-  return TRUE;
-}
-
 gboolean
 qv_output_dir_write (QvOutputDir *dir, const char *name, const char *contents, gsize length,
                      GError **error)
@@ -182,12 +164,12 @@ qv_output_dir_write (QvOutputDir *dir, const char *name, const char *contents, g
     {
       /* the injected failure: half the data reach the temporary file, as
        * when a disk fills up */
-      (void) write_all (fd, contents, length / 2, &saved);
+      (void) qv_output_write_fd (fd, contents, length / 2);
       saved = ENOSPC;
       ok = FALSE;
     }
   else
-    ok = write_all (fd, contents, length, &saved);
+    ok = (saved = qv_output_write_fd (fd, contents, length)) == 0;
   if (ok && fsync (fd) != 0)
     {
       saved = errno;
@@ -198,16 +180,19 @@ qv_output_dir_write (QvOutputDir *dir, const char *name, const char *contents, g
       saved = errno;
       ok = FALSE;
     }
-  if (ok && g_rename (temp, final) != 0)
-    {
-      saved = errno;
-      ok = FALSE;
-    }
+  /* without --force the rename refuses to replace a file that appeared
+   * since the check above */
+  if (ok && (saved = qv_output_commit (temp, final, dir->force)) != 0)
+    ok = FALSE;
   if (!ok)
     {
       (void) g_unlink (temp);
-      g_set_error (error, QV_ERROR, QV_ERROR_WRITE, "cannot write %s: %s", final,
-                   g_strerror (saved));
+      if (saved == EEXIST)
+        g_set_error (error, QV_ERROR, QV_ERROR_WRITE, "%s exists; pass --force to replace it",
+                     final);
+      else
+        g_set_error (error, QV_ERROR, QV_ERROR_WRITE, "cannot write %s: %s", final,
+                     g_strerror (saved));
       return FALSE;
     }
   writes_done++;
