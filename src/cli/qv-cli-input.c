@@ -158,9 +158,10 @@ qv_cli_emit (const char *command, const char *path, const char *text, gboolean f
   if (path)
     return qv_output_write (path, text, strlen (text), force, &error) ? QV_EXIT_OK
                                                                        : qv_cli_fail (command, error);
+  errno = 0;
   if (fputs (text, stdout) < 0 || fflush (stdout) != 0)
     {
-      g_printerr ("quaver: cannot write to standard output\n");
+      g_printerr ("quaver: cannot write to standard output: %s\n", g_strerror (errno));
       return QV_EXIT_WRITE;
     }
   return QV_EXIT_OK;

@@ -1,6 +1,7 @@
 /* qv-cmd-spectrum.c — `quaver spectrum`: IR and Raman intensities of the
  * modes and their broadened spectrum, as CSV, JSON, PNG or SVG.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <errno.h>
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
@@ -322,9 +323,10 @@ write_bytes (const char *output, const void *data, gsize length, gboolean force)
   if (output)
     return qv_output_write (output, data, length, force, &error) ? QV_EXIT_OK
                                                                  : qv_cli_fail ("spectrum", error);
+  errno = 0;
   if (fwrite (data, 1, length, stdout) != length || fflush (stdout) != 0)
     {
-      g_printerr ("quaver: cannot write to standard output\n");
+      g_printerr ("quaver: cannot write to standard output: %s\n", g_strerror (errno));
       return QV_EXIT_WRITE;
     }
   return QV_EXIT_OK;
