@@ -595,3 +595,30 @@ qv_band_connect (const QvPhononSet *set, const gboolean *restart, guint *order)
         order[k * nb + b] = (guint) assign[b];
     }
 }
+
+double *
+qv_band_sampling_solve_points (const QvBandSampling *s, double step)
+{
+  double *out = g_memdup2 (s->q, 3 * s->n_q * sizeof (double));
+
+  for (gsize k = 0; k < s->n_q; k++)
+    {
+      double *q = out + 3 * k, d[3], norm = 0.0;
+      gssize j;
+      if (q[0] != 0.0 || q[1] != 0.0 || q[2] != 0.0)
+        continue;
+      j = (k + 1 < s->n_q && !s->restart[k + 1]) ? (gssize) k + 1
+          : (k > 0 && !s->restart[k]) ? (gssize) k - 1 : -1;
+      if (j < 0)
+        continue;
+      for (int c = 0; c < 3; c++)
+        {
+          d[c] = s->q[3 * j + c];
+          norm += d[c] * d[c];
+        }
+      norm = sqrt (norm);
+      for (int c = 0; c < 3; c++)
+        q[c] = norm > 0.0 ? step * d[c] / norm : 0.0;
+    }
+  return out;
+}

@@ -64,6 +64,13 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvBandSampling, qv_band_sampling_free)
 QvBandSampling *qv_band_path_sample (const QvBandPath *path, const double cell[3][3],
                                      gsize n_points, double density, GError **error);
 
+/* The points of @s to solve when D(q) has a non-analytic term (polar
+ * crystals, qv-nonanalytic.h), which at Γ depends on the direction of
+ * approach: every Γ point is moved @step (fractional, e.g. 10⁻⁶) towards
+ * its neighbour on the same piece of the path; a Γ alone on its piece
+ * stays. A new array of 3 n_q doubles. */
+double *qv_band_sampling_solve_points (const QvBandSampling *s, double step);
+
 /* Connects branches along the q points of @set (which must hold
  * eigenvectors): order[k·nb + b] is the index (in ascending order at q_k)
  * of branch b. At k = 0 and where @restart[k] (may be NULL) the branches

@@ -24,6 +24,8 @@ struct _QvDocument
   QvModeRow *rows;          /* one per mode */
   QvDocumentAnalysis *analysis; /* of @modes */
   QvDocumentSource *source; /* what was read, NULL when built in memory */
+  QvDocumentLattice *lattice; /* a crystal's lattice dynamics, or NULL */
+  char *lattice_note;       /* why a crystal has none, or NULL */
 };
 
 G_DEFINE_FINAL_TYPE (QvDocument, qv_document, G_TYPE_OBJECT)
@@ -116,6 +118,8 @@ qv_document_finalize (GObject *object)
   g_free (self->rows);
   g_clear_pointer (&self->analysis, qv_document_analysis_free);
   g_clear_pointer (&self->source, qv_document_source_free);
+  g_clear_pointer (&self->lattice, qv_document_lattice_free);
+  g_free (self->lattice_note);
   G_OBJECT_CLASS (qv_document_parent_class)->finalize (object);
 }
 
@@ -343,6 +347,8 @@ load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProg
   QvModeSet *modes;
   QvDocument *doc;
   QvDocumentAnalysis *analysis;
+  QvDocumentLattice *lattice;
+  char *lattice_note = NULL;
   g_autofree char *display = NULL;
 
   input = qv_input_load (options, &error);
@@ -364,6 +370,15 @@ load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProg
     }
   else
     modes = g_steal_pointer (&input->modes);
+  /* A crystal: its dispersion, DOS and thermal properties as well. */
+  lattice = qv_document_lattice_new (input, &progress, &lattice_note);
+  if (g_task_return_error_if_cancelled (task))
+    {
+      qv_mode_set_free (modes);
+      qv_document_lattice_free (lattice);
+      g_free (lattice_note);
+      return;
+    }
 
   display = d->source->demo ? g_strdup (_("Demo (invented data)"))
                             : g_path_get_basename (d->source->geometry);
@@ -376,6 +391,8 @@ load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProg
                       g_steal_pointer (&input->hessian), modes, analysis);
   doc->source = qv_document_source_copy (d->source);
   doc->source->mass_model = input->mass_model;
+  doc->lattice = lattice;
+  doc->lattice_note = lattice_note;
   if (!d->source->demo && !d->source->hessian && input->hessian_source
       && g_file_test (input->hessian_source, G_FILE_TEST_IS_REGULAR))
     doc->source->bundle_hessian = g_strdup (input->hessian_source);
@@ -538,4 +555,16 @@ qv_document_get_masses_edited (QvDocument *doc)
     if (doc->structure->atoms[a].mass != doc->original->atoms[a].mass)
       return TRUE;
   return FALSE;
+}
+
+const QvDocumentLattice *
+qv_document_get_lattice (QvDocument *doc)
+{
+  return doc->lattice;
+}
+
+const char *
+qv_document_get_lattice_note (QvDocument *doc)
+{
+  return doc->lattice_note;
 }

@@ -5,6 +5,7 @@
 #pragma once
 #include <gio/gio.h>
 #include "qv-document-analysis.h"
+#include "qv-document-lattice.h"
 #include "qv-input.h"
 #include "qv-mode-set.h"
 #include "qv-structure.h"
@@ -80,6 +81,14 @@ const QvModeSet *qv_document_get_modes (QvDocument *doc);
 /* Point group, species, make-up and intensities of the modes, computed on
  * the worker with them and replaced with them on ::changed. */
 const QvDocumentAnalysis *qv_document_get_analysis (QvDocument *doc);
+/* A crystal's lattice dynamics (a bundle with a "crystal", or a periodic
+ * supercell with its Hessian), computed on the loading worker; NULL for a
+ * molecule, or for a crystal that could not be built — then
+ * qv_document_get_lattice_note says why (NULL otherwise). The lattice
+ * keeps the masses as loaded: editing masses re-solves the supercell's
+ * modes only. */
+const QvDocumentLattice *qv_document_get_lattice (QvDocument *doc);
+const char *qv_document_get_lattice_note (QvDocument *doc);
 /* FALSE for precomputed modes: then masses cannot be changed. */
 gboolean qv_document_has_hessian (QvDocument *doc);
 /* TRUE when some mass differs from the one the file gave. */

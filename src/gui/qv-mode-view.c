@@ -32,6 +32,8 @@ struct _QvModeView
 
   QvStructure *structure;
   float *displacement;        /* 3N, Å per unit Q, or NULL */
+  float *imaginary;           /* 3N, the field's imaginary part (a lattice
+                                 mode), or NULL for a real mode */
   float *participation;       /* N, or NULL */
   double amplitude;
   gboolean structure_dirty, mode_dirty, options_dirty, fit_pending;
@@ -156,7 +158,18 @@ largest_displacement (QvModeView *self)
   for (gsize a = 0; a < n; a++)
     {
       const float *d = self->displacement + 3 * a;
-      best = MAX (best, (double) d[0] * d[0] + (double) d[1] * d[1] + (double) d[2] * d[2]);
+      double l2 = (double) d[0] * d[0] + (double) d[1] * d[1] + (double) d[2] * d[2];
+      if (self->imaginary)
+        {
+          /* over a period the atom's path is an ellipse: its semi-major
+           * axis² is (|re|² + |im|² + |v·v|)/2 with v = re + i·im */
+          const float *e = self->imaginary + 3 * a;
+          double i2 = (double) e[0] * e[0] + (double) e[1] * e[1] + (double) e[2] * e[2];
+          double ri = (double) d[0] * e[0] + (double) d[1] * e[1] + (double) d[2] * e[2];
+          double vv = sqrt ((l2 - i2) * (l2 - i2) + 4 * ri * ri);
+          l2 = 0.5 * (l2 + i2 + vv);
+        }
+      best = MAX (best, l2);
     }
   return fabs (self->amplitude) * sqrt (best);
 }
@@ -175,7 +188,8 @@ upload (QvModeView *self)
     fit_camera (self);
   if (self->mode_dirty)
     {
-      qv_renderer_set_mode (self->renderer, self->displacement, NULL, (float) self->amplitude);
+      qv_renderer_set_mode (self->renderer, self->displacement, self->imaginary,
+                            (float) self->amplitude);
       if (self->participation)
         qv_renderer_set_participation (self->renderer, self->participation);
       self->mode_dirty = FALSE;
@@ -420,6 +434,7 @@ qv_mode_view_set_structure (QvModeView *self, const QvStructure *structure, gboo
   g_clear_pointer (&self->structure, qv_structure_free);
   self->structure = structure ? qv_structure_copy (structure) : NULL;
   g_clear_pointer (&self->displacement, g_free);
+  g_clear_pointer (&self->imaginary, g_free);
   g_clear_pointer (&self->participation, g_free);
   self->structure_dirty = TRUE;
   self->fit_pending = self->fit_pending || fit;
@@ -433,12 +448,22 @@ void
 qv_mode_view_set_mode (QvModeView *self, const float *displacement, const float *participation,
                        double amplitude)
 {
+  qv_mode_view_set_complex_mode (self, displacement, NULL, participation, amplitude);
+}
+
+void
+qv_mode_view_set_complex_mode (QvModeView *self, const float *re, const float *im,
+                               const float *participation, double amplitude)
+{
   const gsize n = self->structure ? self->structure->n_atoms : 0;
 
   g_clear_pointer (&self->displacement, g_free);
+  g_clear_pointer (&self->imaginary, g_free);
   g_clear_pointer (&self->participation, g_free);
-  if (displacement && n)
-    self->displacement = g_memdup2 (displacement, sizeof (float) * 3 * n);
+  if (re && n)
+    self->displacement = g_memdup2 (re, sizeof (float) * 3 * n);
+  if (re && im && n)
+    self->imaginary = g_memdup2 (im, sizeof (float) * 3 * n);
   if (participation && n)
     self->participation = g_memdup2 (participation, sizeof (float) * n);
   self->amplitude = amplitude;
@@ -460,6 +485,18 @@ double
 qv_mode_view_get_amplitude (QvModeView *self)
 {
   return self->amplitude;
+}
+
+gsize
+qv_mode_view_get_n_atoms (QvModeView *self)
+{
+  return self->structure ? self->structure->n_atoms : 0;
+}
+
+gboolean
+qv_mode_view_is_complex (QvModeView *self)
+{
+  return self->imaginary != NULL;
 }
 
 void
@@ -776,6 +813,7 @@ qv_mode_view_finalize (GObject *object)
 
   g_clear_pointer (&self->structure, qv_structure_free);
   g_free (self->displacement);
+  g_free (self->imaginary);
   g_free (self->participation);
   G_OBJECT_CLASS (qv_mode_view_parent_class)->finalize (object);
 }

@@ -21,7 +21,14 @@ void qv_mode_view_set_structure (QvModeView *self, const QvStructure *structure,
  * shown; NULL @displacement clears. Copied. */
 void qv_mode_view_set_mode (QvModeView *self, const float *displacement, const float *participation,
                             double amplitude);
+/* A lattice mode's complex field: r(φ) = r₀ + amplitude·(re cos φ − im
+ * sin φ) (qv-lattice-replica.h); NULL @im is a real mode. Copied. */
+void qv_mode_view_set_complex_mode (QvModeView *self, const float *re, const float *im,
+                                    const float *participation, double amplitude);
 void qv_mode_view_set_amplitude (QvModeView *self, double amplitude);
+/* Atoms shown, and whether the mode shown has an imaginary part (for tests). */
+gsize qv_mode_view_get_n_atoms (QvModeView *self);
+gboolean qv_mode_view_is_complex (QvModeView *self);
 double qv_mode_view_get_amplitude (QvModeView *self);
 
 /* Animation. Property "playing"; "speed" in cycles per second. */

@@ -60,6 +60,13 @@ qv_motion_bar_set_mode (QvMotionBar *self, const QvModeSet *modes, int k, guint 
   gtk_widget_set_tooltip_text (GTK_WIDGET (self->summary_label), text);
 }
 
+void
+qv_motion_bar_set_summary (QvMotionBar *self, const char *text)
+{
+  gtk_label_set_label (self->summary_label, text ? text : "");
+  gtk_widget_set_tooltip_text (GTK_WIDGET (self->summary_label), text);
+}
+
 const char *
 qv_motion_bar_get_summary (QvMotionBar *self)
 {

@@ -18,6 +18,8 @@ double qv_motion_bar_get_speed (QvMotionBar *self);
 /* Says what the amplitude means for mode @k at level @v (largest atomic
  * displacement in Å, from the core); NULL @modes clears. */
 void qv_motion_bar_set_mode (QvMotionBar *self, const QvModeSet *modes, int k, guint v);
+/* Says @text instead (a lattice mode's scale); NULL clears. */
+void qv_motion_bar_set_summary (QvMotionBar *self, const char *text);
 /* The explanation shown, for tests. */
 const char *qv_motion_bar_get_summary (QvMotionBar *self);
 

@@ -8,6 +8,8 @@
 #include "qv-error.h"
 #include "qv-export-pane.h"
 #include "qv-hessian-dialog.h"
+#include "qv-lattice-pane.h"
+#include "qv-lattice-replica.h"
 #include "qv-preferences.h"
 #include "qv-welcome-page.h"
 #include "qv-window.h"
@@ -39,8 +41,12 @@ struct _QvWindow
   GtkRevealer *spectrum_revealer;
   QvSpectrumView *spectrum_view;
   QvAtomPopover *atom_popover;
+  GtkWidget *side_switcher;
+  GtkStack *side_stack;
+  QvLatticePane *lattice_pane;
 
   QvDocument *document;
+  gboolean lattice_shown;      /* the view shows a lattice mode's replica */
   GCancellable *job;           /* the running load or solve, or NULL */
   guint pulse_id;
   GtkWindow *error_dialog;
@@ -60,6 +66,8 @@ show_selected_mode (QvWindow *self)
 
   qv_mode_detail_show (self->mode_detail, self->document, k);
   qv_spectrum_view_set_selected (self->spectrum_view, k);
+  if (self->lattice_shown)
+    return;                    /* the view shows the lattice page's mode */
   if (modes == NULL || k < 0)
     {
       qv_mode_view_set_mode (self->mode_view, NULL, NULL, 0.0);
@@ -92,12 +100,134 @@ show_selected_mode (QvWindow *self)
   }
 }
 
+/* ---- the selected lattice mode ---- */
+
+/* A lattice mode's largest displacement at amplitude multiple 1, Å: a
+ * display scale (a phonon's amplitude spreads over the whole crystal, so
+ * no per-cell turning point is meaningful). */
+#define LATTICE_DISPLAY_LARGEST 0.3
+
+static void show_selected_mode (QvWindow *self);
+
+static void
+lattice_amplitude (QvWindow *self)
+{
+  const double largest = LATTICE_DISPLAY_LARGEST * qv_motion_bar_get_amplitude (self->motion_bar);
+  /* TRANSLATORS: the motion bar for a lattice mode: the shown scale */
+  g_autofree char *text = g_strdup_printf (_("× display scale: largest %.3f Å (not a quantum amplitude)"),
+                                           largest);
+  qv_mode_view_set_amplitude (self->mode_view, largest);
+  qv_motion_bar_set_summary (self->motion_bar, text);
+}
+
+/* Shows the lattice mode chosen in the pane: D(q) solved at its q, the
+ * field on a block of cells with the phases of qv-lattice-replica.h. */
+static void
+show_lattice_mode (QvWindow *self, gboolean fit)
+{
+  const QvDocumentLattice *l = self->document ? qv_document_get_lattice (self->document) : NULL;
+  int k, b, cells = qv_lattice_pane_get_cells (self->lattice_pane);
+  int reps[3] = { cells, cells, cells };
+  g_autoptr(QvPhononSet) set = NULL;
+  g_autoptr(QvStructure) block = NULL;
+  g_autoptr(GError) error = NULL;
+
+  qv_lattice_pane_get_selected (self->lattice_pane, &k, &b);
+  if (l == NULL || l->bands == NULL || k < 0)
+    return;
+  set = qv_document_lattice_solve (l, l->solve_q + 3 * k, &error);
+  block = qv_lattice_replica_new (l->crystal->primitive, reps, &error);
+  if (set == NULL || block == NULL)
+    {
+      qv_window_show_error (self, _("The lattice mode could not be shown"), error);
+      return;
+    }
+  {
+    const gsize nb = l->n_branches, n = 3 * block->n_atoms;
+    const guint j = l->order[(gsize) k * nb + (gsize) b];
+    g_autofree float *re = g_new (float, n), *im = g_new (float, n);
+    /* the field at the path's q (Γ itself, not the nudged point) */
+    qv_lattice_replica_field (l->crystal->primitive, reps, l->sampling->q + 3 * k,
+                              set->eigenvectors + (gsize) j * nb, re, im);
+    if (!self->lattice_shown || fit)
+      qv_mode_view_set_structure (self->mode_view, block, TRUE);
+    self->lattice_shown = TRUE;
+    qv_mode_view_set_complex_mode (self->mode_view, re, im, NULL, 0.0);
+    lattice_amplitude (self);
+  }
+}
+
+static void
+lattice_mode_activated (QvLatticePane *pane, int k, int b, gpointer data)
+{
+  show_lattice_mode (QV_WINDOW (data), FALSE);
+}
+
+static void
+lattice_cells_changed (QvWindow *self)
+{
+  if (self->lattice_shown)
+    show_lattice_mode (self, TRUE);
+}
+
+/* Back to the supercell's own structure for its modes. */
+static void
+leave_lattice (QvWindow *self)
+{
+  if (!self->lattice_shown)
+    return;
+  self->lattice_shown = FALSE;
+  if (self->document)
+    qv_mode_view_set_structure (self->mode_view, qv_document_get_structure (self->document), TRUE);
+}
+
+static void
+side_page_changed (QvWindow *self)
+{
+  const char *page = gtk_stack_get_visible_child_name (self->side_stack);
+
+  if (g_strcmp0 (page, "lattice") == 0)
+    show_lattice_mode (self, FALSE);
+  else if (self->lattice_shown)
+    {
+      leave_lattice (self);
+      show_selected_mode (self);
+    }
+}
+
+/* A crystal opens on the lattice page, showing the top branch at the
+ * path's second labelled point (a zone-boundary mode, where neighbouring
+ * cells move against each other). */
+static void
+setup_lattice (QvWindow *self)
+{
+  const QvDocumentLattice *l = qv_document_get_lattice (self->document);
+  const gboolean crystal = l != NULL || qv_document_get_lattice_note (self->document) != NULL;
+
+  self->lattice_shown = FALSE;
+  qv_lattice_pane_set_document (self->lattice_pane, self->document);
+  gtk_widget_set_visible (self->side_switcher, crystal);
+  if (l != NULL && l->bands != NULL)
+    {
+      const gsize k = l->sampling->n_labels > 1 ? l->sampling->label_index[1] : 0;
+      qv_lattice_pane_set_selected (self->lattice_pane, (int) k, (int) l->n_branches - 1);
+    }
+  gtk_stack_set_visible_child_name (self->side_stack, crystal ? "lattice" : "modes");
+  if (l != NULL && l->bands != NULL)
+    show_lattice_mode (self, TRUE);
+}
+
 static void
 amplitude_changed (QvWindow *self)
 {
   const int k = qv_mode_panel_get_selected (self->mode_panel);
   const QvModeSet *modes = self->document ? qv_document_get_modes (self->document) : NULL;
 
+  if (self->lattice_shown)
+    {
+      lattice_amplitude (self);
+      return;
+    }
   if (modes == NULL || k < 0)
     return;
   qv_mode_view_set_amplitude (self->mode_view,
@@ -145,7 +275,8 @@ document_changed (QvWindow *self)
   qv_mode_panel_set_document (self->mode_panel, self->document);
   qv_spectrum_view_set_document (self->spectrum_view, self->document);
   qv_mode_panel_select (self->mode_panel, k);
-  qv_mode_view_set_structure (self->mode_view, qv_document_get_structure (self->document), FALSE);
+  if (!self->lattice_shown)
+    qv_mode_view_set_structure (self->mode_view, qv_document_get_structure (self->document), FALSE);
   show_selected_mode (self);
   update_title (self);
   qv_window_actions_update (self);
@@ -161,6 +292,8 @@ qv_window_set_document (QvWindow *self, QvDocument *doc)
   gtk_popover_popdown (GTK_POPOVER (self->atom_popover));
   if (doc == NULL)
     {
+      self->lattice_shown = FALSE;
+      qv_lattice_pane_set_document (self->lattice_pane, NULL);
       gtk_stack_set_visible_child_name (self->stack, "welcome");
       update_title (self);
       qv_window_actions_update (self);
@@ -170,9 +303,11 @@ qv_window_set_document (QvWindow *self, QvDocument *doc)
   self->changed_id = g_signal_connect_swapped (doc, "changed", G_CALLBACK (document_changed), self);
   qv_mode_panel_set_document (self->mode_panel, doc);
   qv_spectrum_view_set_document (self->spectrum_view, doc);
+  self->lattice_shown = FALSE;
   qv_mode_view_set_structure (self->mode_view, qv_document_get_structure (doc), TRUE);
   qv_mode_panel_select (self->mode_panel, 0);
   show_selected_mode (self);
+  setup_lattice (self);
   update_title (self);
   gtk_stack_set_visible_child_name (self->stack, "document");
   qv_window_actions_update (self);
@@ -655,6 +790,9 @@ atom_popover_closed (QvWindow *self)
 static void
 atom_activated (QvModeView *view, guint atom, double x, double y, gpointer data)
 {
+  /* the replica's atoms are not the document's: no mass editing there */
+  if (QV_WINDOW (data)->lattice_shown)
+    return;
   qv_window_show_atom (QV_WINDOW (data), atom, x, y);
 }
 
@@ -776,6 +914,7 @@ qv_window_class_init (QvWindowClass *klass)
   g_type_ensure (QV_TYPE_MODE_VIEW);
   g_type_ensure (QV_TYPE_MOTION_BAR);
   g_type_ensure (QV_TYPE_MODE_PANEL);
+  g_type_ensure (QV_TYPE_LATTICE_PANE);
   g_type_ensure (QV_TYPE_MODE_DETAIL);
   g_type_ensure (QV_TYPE_EXPORT_PANE);
   g_type_ensure (QV_TYPE_SPECTRUM_VIEW);
@@ -800,6 +939,9 @@ qv_window_class_init (QvWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvWindow, spectrum_button);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, spectrum_revealer);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, spectrum_view);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, side_switcher);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, side_stack);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, lattice_pane);
 }
 
 static void
@@ -851,6 +993,12 @@ qv_window_init (QvWindow *self)
                            G_CONNECT_SWAPPED);
   g_signal_connect_object (self->mode_view, "atom-activated", G_CALLBACK (atom_activated), self, 0);
   g_signal_connect_object (self->spectrum_view, "mode-activated", G_CALLBACK (spectrum_mode_activated), self, 0);
+  g_signal_connect_object (self->lattice_pane, "mode-activated", G_CALLBACK (lattice_mode_activated), self, 0);
+  g_signal_connect_object (self->lattice_pane, "notify::cells", G_CALLBACK (lattice_cells_changed), self,
+                           G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->side_stack, "notify::visible-child", G_CALLBACK (side_page_changed), self,
+                           G_CONNECT_SWAPPED);
+  g_object_bind_property (self->prefs, "wavenumber-unit", self->lattice_pane, "unit", G_BINDING_SYNC_CREATE);
   play_changed (self);
 
   self->atom_popover = qv_atom_popover_new ();
@@ -886,6 +1034,15 @@ QvMotionBar *qv_window_get_motion_bar (QvWindow *self) { return self->motion_bar
 QvModeDetail *qv_window_get_mode_detail (QvWindow *self) { return self->mode_detail; }
 QvSpectrumView *qv_window_get_spectrum_view (QvWindow *self) { return self->spectrum_view; }
 GtkRevealer *qv_window_get_spectrum_revealer (QvWindow *self) { return self->spectrum_revealer; }
+QvLatticePane *qv_window_get_lattice_pane (QvWindow *self) { return self->lattice_pane; }
+const char *qv_window_get_side_page (QvWindow *self) { return gtk_stack_get_visible_child_name (self->side_stack); }
+gboolean qv_window_get_side_switcher_visible (QvWindow *self) { return gtk_widget_get_visible (self->side_switcher); }
+
+void
+qv_window_show_side_page (QvWindow *self, const char *name)
+{
+  gtk_stack_set_visible_child_name (self->side_stack, name);
+}
 
 AdwFlap *
 qv_window_get_export_flap (QvWindow *self)

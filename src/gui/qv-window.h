@@ -7,6 +7,7 @@
 #include "qv-document.h"
 #include "qv-mode-panel.h"
 #include "qv-mode-view.h"
+#include "qv-lattice-pane.h"
 #include "qv-motion-bar.h"
 #include "qv-mode-detail.h"
 #include "qv-spectrum-view.h"
@@ -52,6 +53,13 @@ QvMotionBar *qv_window_get_motion_bar (QvWindow *self);
 QvModeDetail *qv_window_get_mode_detail (QvWindow *self);
 /* The spectrum pane under the view and its revealer (win.toggle-spectrum). */
 QvSpectrumView *qv_window_get_spectrum_view (QvWindow *self);
+/* A crystal's lattice plots, and the side panel's page shown: "lattice"
+ * or "modes" (the supercell's own list); set it with
+ * qv_window_show_side_page. */
+QvLatticePane *qv_window_get_lattice_pane (QvWindow *self);
+const char *qv_window_get_side_page (QvWindow *self);
+void qv_window_show_side_page (QvWindow *self, const char *name);
+gboolean qv_window_get_side_switcher_visible (QvWindow *self);
 GtkRevealer *qv_window_get_spectrum_revealer (QvWindow *self);
 /* The error dialog on screen, or NULL. */
 GtkWindow *qv_window_get_error_dialog (QvWindow *self);

@@ -312,7 +312,9 @@ locate_on_way (const Locate *l)
   const gsize len = l->path->len;
   if (len == 0)
     return TRUE;
-  if (strncmp (l->path->str, l->target, len) != 0)
+  /* by length, not strncmp: a member name may hold "\u0000", and the path
+   * may then be longer than the target although it compares equal */
+  if (len > strlen (l->target) || memcmp (l->path->str, l->target, len) != 0)
     return FALSE;
   return l->target[len] == '\0' || l->target[len] == '.' || l->target[len] == '[';
 }
@@ -321,7 +323,8 @@ locate_on_way (const Locate *l)
 static void
 locate_note (Locate *l, gboolean name, gsize line, gsize column)
 {
-  if (l->name == name && strcmp (l->path->str, l->target) == 0)
+  if (l->name == name && l->path->len == strlen (l->target)
+      && memcmp (l->path->str, l->target, l->path->len) == 0)
     {
       l->line = line;
       l->column = column;
@@ -897,21 +900,22 @@ read_atom (Reader *r, QvStructure *s, gsize i, JsonNode *node, const char *path,
 }
 
 static gboolean
-read_cell (Reader *r, QvStructure *s, JsonNode *node)
+read_cell (Reader *r, const char *where_s, QvStructure *s, JsonNode *node)
 {
+  g_autofree char *k_cell = path_key (where_s, "cell");
   JsonArray *rows;
   double volume, lengths = 1.0;
 
   if (JSON_NODE_TYPE (node) != JSON_NODE_ARRAY)
-    return fail (r, "structure.cell", "expected three lattice vectors [[ax, ay, az], "
+    return fail (r, k_cell, "expected three lattice vectors [[ax, ay, az], "
                  "[bx, by, bz], [cx, cy, cz]] in Å, found %s", kind (node));
   rows = json_node_get_array (node);
   if (json_array_get_length (rows) != 3)
-    return fail (r, "structure.cell", "expected 3 lattice vectors, found %u",
+    return fail (r, k_cell, "expected 3 lattice vectors, found %u",
                  json_array_get_length (rows));
   for (guint k = 0; k < 3; k++)
     {
-      g_autofree char *where = path_index ("structure.cell", k);
+      g_autofree char *where = path_index (k_cell, k);
       if (!read_numbers (r, json_array_get_element (rows, k), where, 3, "", s->cell[k]))
         return FALSE;
       lengths *= sqrt (s->cell[k][0] * s->cell[k][0] + s->cell[k][1] * s->cell[k][1]
@@ -921,25 +925,26 @@ read_cell (Reader *r, QvStructure *s, JsonNode *node)
            - s->cell[0][1] * (s->cell[1][0] * s->cell[2][2] - s->cell[1][2] * s->cell[2][0])
            + s->cell[0][2] * (s->cell[1][0] * s->cell[2][1] - s->cell[1][1] * s->cell[2][0]);
   if (!(fabs (volume) > 1e-10 * lengths) || !isfinite (volume))
-    return fail (r, "structure.cell", "the lattice vectors are linearly dependent "
+    return fail (r, k_cell, "the lattice vectors are linearly dependent "
                  "(the cell has no volume)");
   s->has_cell = TRUE;
   return TRUE;
 }
 
 static gboolean
-read_pbc (Reader *r, QvStructure *s, JsonNode *node)
+read_pbc (Reader *r, const char *where_s, QvStructure *s, JsonNode *node)
 {
+  g_autofree char *k_pbc = path_key (where_s, "pbc");
   JsonArray *array;
   if (JSON_NODE_TYPE (node) != JSON_NODE_ARRAY
       || json_array_get_length (array = json_node_get_array (node)) != 3)
-    return fail (r, "structure.pbc", "expected three booleans such as [true, true, false]");
+    return fail (r, k_pbc, "expected three booleans such as [true, true, false]");
   for (guint k = 0; k < 3; k++)
     {
       JsonNode *e = json_array_get_element (array, k);
       if (!is_boolean (e))
         {
-          g_autofree char *where = path_index ("structure.pbc", k);
+          g_autofree char *where = path_index (k_pbc, k);
           return fail (r, where, "expected true or false, found %s", kind (e));
         }
       s->pbc[k] = json_node_get_boolean (e);
@@ -948,21 +953,22 @@ read_pbc (Reader *r, QvStructure *s, JsonNode *node)
 }
 
 static gboolean
-read_forces (Reader *r, QvStructure *s, JsonNode *node)
+read_forces (Reader *r, const char *where_s, QvStructure *s, JsonNode *node)
 {
+  g_autofree char *k_forces = path_key (where_s, "forces");
   JsonArray *rows;
 
   if (JSON_NODE_TYPE (node) != JSON_NODE_ARRAY)
-    return fail (r, "structure.forces", "expected one [fx, fy, fz] per atom (eV/Å), found %s",
+    return fail (r, k_forces, "expected one [fx, fy, fz] per atom (eV/Å), found %s",
                  kind (node));
   rows = json_node_get_array (node);
   if (json_array_get_length (rows) != s->n_atoms)
-    return fail (r, "structure.forces", "expected %" G_GSIZE_FORMAT " force vectors, one per "
+    return fail (r, k_forces, "expected %" G_GSIZE_FORMAT " force vectors, one per "
                  "atom, found %u", s->n_atoms, json_array_get_length (rows));
   s->forces = g_new (double, 3 * s->n_atoms);
   for (gsize i = 0; i < s->n_atoms; i++)
     {
-      g_autofree char *where = path_index ("structure.forces", i);
+      g_autofree char *where = path_index (k_forces, i);
       if (!read_numbers (r, json_array_get_element (rows, (guint) i), where, 3, "",
                          &s->forces[3 * i]))
         return FALSE;
@@ -971,18 +977,21 @@ read_forces (Reader *r, QvStructure *s, JsonNode *node)
 }
 
 static QvStructure *
-read_structure (Reader *r, JsonNode *node, JsonNode *masses_node, QvMassModel *model_out)
+read_structure (Reader *r, const char *where_s, JsonNode *node, JsonNode *masses_node,
+                QvMassModel *model_out)
 {
+  g_autofree char *k_atoms = path_key (where_s, "atoms"), *k_pbc = path_key (where_s, "pbc");
+  g_autofree char *k_energy = path_key (where_s, "energy");
   static const char *const keys[] = { "atoms", "cell", "pbc", "energy", "forces", NULL };
   g_autoptr(QvStructure) s = NULL;
   g_autofree MassOverride *overrides = NULL;
-  JsonObject *object = read_object (r, node, "structure");
+  JsonObject *object = read_object (r, node, where_s);
   JsonArray *atoms;
   JsonNode *n;
   QvMassModel model = QV_MASS_ISOTOPIC;
   gsize n_atoms;
 
-  if (object == NULL || !check_keys (r, object, "structure", keys))
+  if (object == NULL || !check_keys (r, object, where_s, keys))
     return NULL;
   if (masses_node != NULL)
     {
@@ -1002,46 +1011,46 @@ read_structure (Reader *r, JsonNode *node, JsonNode *masses_node, QvMassModel *m
 
   if ((n = member (object, "atoms")) == NULL)
     {
-      fail_at (r, AT_MISSING, "structure", "atoms", "missing; a structure needs at least one "
+      fail_at (r, AT_MISSING, where_s, "atoms", "missing; a structure needs at least one "
                "atom");
       return NULL;
     }
-  if ((atoms = read_array (r, n, "structure.atoms", TRUE, "atoms", "atom")) == NULL)
+  if ((atoms = read_array (r, n, k_atoms, TRUE, "atoms", "atom")) == NULL)
     return NULL;
   n_atoms = json_array_get_length (atoms);
   if ((s = qv_structure_new (n_atoms, r->error)) == NULL)
     {
-      prefix_error (r, "structure.atoms");
+      prefix_error (r, k_atoms);
       return NULL;
     }
   overrides = g_new0 (MassOverride, n_atoms);
   for (gsize i = 0; i < n_atoms; i++)
     {
-      g_autofree char *where = path_index ("structure.atoms", i);
+      g_autofree char *where = path_index (k_atoms, i);
       if (!read_atom (r, s, i, json_array_get_element (atoms, (guint) i), where, &overrides[i]))
         return NULL;
     }
 
-  if ((n = member (object, "cell")) != NULL && !read_cell (r, s, n))
+  if ((n = member (object, "cell")) != NULL && !read_cell (r, where_s, s, n))
     return NULL;
   s->pbc[0] = s->pbc[1] = s->pbc[2] = s->has_cell;
   if ((n = member (object, "pbc")) != NULL)
     {
-      if (!read_pbc (r, s, n))
+      if (!read_pbc (r, where_s, s, n))
         return NULL;
       if (qv_structure_is_periodic (s) && !s->has_cell)
         {
-          fail (r, "structure.pbc", "periodic directions need a \"cell\"");
+          fail (r, k_pbc, "periodic directions need a \"cell\"");
           return NULL;
         }
     }
   if ((n = member (object, "energy")) != NULL)
     {
-      if (!read_number (r, n, "structure.energy", -1, &s->energy))
+      if (!read_number (r, n, k_energy, -1, &s->energy))
         return NULL;
       s->has_energy = TRUE;
     }
-  if ((n = member (object, "forces")) != NULL && !read_forces (r, s, n))
+  if ((n = member (object, "forces")) != NULL && !read_forces (r, where_s, s, n))
     return NULL;
 
   /* Masses: the model for every atom, then the per-atom overrides. */
@@ -1053,15 +1062,13 @@ read_structure (Reader *r, JsonNode *node, JsonNode *masses_node, QvMassModel *m
       if (overrides[i].isotope != 0
           && !qv_structure_set_isotope (s, i, overrides[i].isotope, &local))
         {
-          g_autofree char *where = g_strdup_printf ("structure.atoms[%" G_GSIZE_FORMAT
-                                                    "].isotope", i);
+          g_autofree char *where = g_strdup_printf ("%s[%" G_GSIZE_FORMAT "].isotope", k_atoms, i);
           fail (r, where, "%s", local->message);
           return NULL;
         }
       if (overrides[i].mass > 0.0 && !qv_structure_set_mass (s, i, overrides[i].mass, &local))
         {
-          g_autofree char *where = g_strdup_printf ("structure.atoms[%" G_GSIZE_FORMAT
-                                                    "].mass", i);
+          g_autofree char *where = g_strdup_printf ("%s[%" G_GSIZE_FORMAT "].mass", k_atoms, i);
           fail (r, where, "%s", local->message);
           return NULL;
         }
@@ -1069,7 +1076,7 @@ read_structure (Reader *r, JsonNode *node, JsonNode *masses_node, QvMassModel *m
   for (gsize i = 0; i < n_atoms; i++)
     if (!(s->atoms[i].mass > 0.0) || !isfinite (s->atoms[i].mass))
       {
-        g_autofree char *where = path_index ("structure.atoms", i);
+        g_autofree char *where = path_index (k_atoms, i);
         fail (r, where, "no usable mass for this element; give \"isotope\" or \"mass\"");
         return NULL;
       }
@@ -1635,12 +1642,106 @@ read_matrix3 (Reader *r, JsonNode *node, const char *path, const char *unit, dou
   return TRUE;
 }
 
+/* --- crystal ------------------------------------------------------------- */
+
+/* Three integers in [lo, hi] at @path into @out. */
+static gboolean
+read_ints3 (Reader *r, JsonNode *node, const char *path, gint64 lo, gint64 hi, int out[3])
+{
+  JsonArray *a;
+
+  if (JSON_NODE_TYPE (node) != JSON_NODE_ARRAY
+      || json_array_get_length (a = json_node_get_array (node)) != 3)
+    return fail (r, path, "expected three integers, found %s", kind (node));
+  for (guint k = 0; k < 3; k++)
+    {
+      JsonNode *e = json_array_get_element (a, k);
+      if (!is_integer (e) || json_node_get_int (e) < lo || json_node_get_int (e) > hi)
+        {
+          g_autofree char *where = path_index (path, k);
+          return fail (r, where, "expected an integer from %" G_GINT64_FORMAT " to %"
+                       G_GINT64_FORMAT ", found %s", lo, hi, kind (e));
+        }
+      out[k] = (int) json_node_get_int (e);
+    }
+  return TRUE;
+}
+
+/* "crystal": the structure is a supercell of "primitive", the Hessian the
+ * supercell's; "supercell" (a 3x3 integer matrix or three counts) is
+ * checked against the structure when the crystal is built, "path" and
+ * "mesh" are the defaults of the lattice views. */
+static gboolean
+read_crystal (Reader *r, JsonObject *root, QvBundle *bundle)
+{
+  static const char *const keys[] = { "primitive", "supercell", "path", "mesh", NULL };
+  JsonNode *node = member (root, "crystal"), *n;
+  JsonObject *object;
+  QvMassModel model;
+
+  if (node == NULL)
+    return TRUE;
+  if ((object = read_object (r, node, "crystal")) == NULL
+      || !check_keys (r, object, "crystal", keys))
+    return FALSE;
+  if (!bundle->structure->has_cell)
+    return fail (r, "structure", "a bundle with a \"crystal\" needs the supercell's \"cell\" "
+                 "in \"structure\"");
+  if ((n = member (object, "primitive")) == NULL)
+    return fail_at (r, AT_MISSING, "crystal", "primitive",
+                    "missing; give the primitive cell: {\"cell\": [...], \"atoms\": [...]}");
+  bundle->primitive = read_structure (r, "crystal.primitive", n, member (root, "masses"), &model);
+  if (bundle->primitive == NULL)
+    return FALSE;
+  if (!bundle->primitive->has_cell)
+    return fail_at (r, AT_MISSING, "crystal.primitive", "cell",
+                    "missing; the primitive cell needs its lattice vectors");
+  if ((n = member (object, "supercell")) != NULL)
+    {
+      JsonArray *rows;
+      if (JSON_NODE_TYPE (n) == JSON_NODE_ARRAY
+          && json_array_get_length (rows = json_node_get_array (n)) == 3
+          && JSON_NODE_TYPE (json_array_get_element (rows, 0)) == JSON_NODE_ARRAY)
+        {
+          for (guint k = 0; k < 3; k++)
+            {
+              g_autofree char *where = path_index ("crystal.supercell", k);
+              if (!read_ints3 (r, json_array_get_element (rows, k), where, -1000, 1000,
+                               bundle->supercell_matrix[k]))
+                return FALSE;
+            }
+        }
+      else
+        {
+          int d[3];
+          if (!read_ints3 (r, n, "crystal.supercell", 1, 1000, d))
+            return FALSE;
+          memset (bundle->supercell_matrix, 0, sizeof bundle->supercell_matrix);
+          for (int k = 0; k < 3; k++)
+            bundle->supercell_matrix[k][k] = d[k];
+        }
+      bundle->has_supercell_matrix = TRUE;
+    }
+  if ((n = member (object, "path")) != NULL)
+    {
+      const char *text;
+      if (!read_string (r, n, "crystal.path", &text))
+        return FALSE;
+      bundle->band_path = g_strdup (text);
+    }
+  if ((n = member (object, "mesh")) != NULL
+      && !read_ints3 (r, n, "crystal.mesh", 1, 1000, bundle->mesh))
+    return FALSE;
+  return TRUE;
+}
+
 static gboolean
 read_born (Reader *r, JsonObject *root, QvBundle *bundle)
 {
   static const char *const keys[] = { "units", "data", NULL };
   JsonNode *born = member (root, "born_charges"), *eps = member (root, "dielectric_tensor"), *m;
-  const gsize n_atoms = bundle->structure->n_atoms;
+  /* with a "crystal", one tensor per site of the primitive cell */
+  const gsize n_atoms = (bundle->primitive ? bundle->primitive : bundle->structure)->n_atoms;
   JsonObject *object;
   JsonArray *atoms;
   const char *units;
@@ -1670,8 +1771,9 @@ read_born (Reader *r, JsonObject *root, QvBundle *bundle)
   if ((atoms = read_array (r, m, "born_charges.data", TRUE, "tensors", "tensor")) == NULL)
     return FALSE;
   if (json_array_get_length (atoms) != n_atoms)
-    return fail (r, "born_charges.data", "expected one 3x3 tensor per atom (%" G_GSIZE_FORMAT
-                 "), found %u", n_atoms, json_array_get_length (atoms));
+    return fail (r, "born_charges.data", "expected one 3x3 tensor per %s (%" G_GSIZE_FORMAT
+                 "), found %u", bundle->primitive ? "site of the primitive cell" : "atom",
+                 n_atoms, json_array_get_length (atoms));
   bundle->born_charges = g_new (double, 9 * n_atoms);
   for (gsize a = 0; a < n_atoms; a++)
     {
@@ -1756,7 +1858,8 @@ read_bundle (Reader *r, JsonNode *root_node)
       fail_at (r, AT_MISSING, NULL, "structure", "missing; a bundle needs a structure");
       return NULL;
     }
-  if ((bundle->structure = read_structure (r, n, member (root, "masses"), &bundle->mass_model)) == NULL)
+  if ((bundle->structure = read_structure (r, "structure", n, member (root, "masses"),
+                                           &bundle->mass_model)) == NULL)
     return NULL;
   if (bundle->title != NULL && bundle->structure->comment == NULL)
     bundle->structure->comment = g_strdup (bundle->title);
@@ -1787,7 +1890,7 @@ read_bundle (Reader *r, JsonNode *root_node)
     return NULL;
   if (!read_derivatives (r, root, bundle))
     return NULL;
-  if (!read_born (r, root, bundle))
+  if (!read_crystal (r, root, bundle) || !read_born (r, root, bundle))
     return NULL;
   if (bundle->view.mode > 3 * bundle->structure->n_atoms)
     {
@@ -1872,5 +1975,7 @@ qv_bundle_free (QvBundle *bundle)
   g_free (bundle->dipole_units);
   g_free (bundle->polarizability_units);
   g_free (bundle->born_charges);
+  qv_structure_free (bundle->primitive);
+  g_free (bundle->band_path);
   g_free (bundle);
 }

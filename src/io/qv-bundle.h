@@ -49,6 +49,17 @@ typedef struct {
   double *born_charges;
   gboolean has_dielectric;
   double dielectric_tensor[3][3];
+  /* "crystal" (optional): @structure is then a supercell (with a cell) of
+   * the primitive cell @primitive and the Hessian is the supercell's; the
+   * Born charges are then per primitive site. @supercell_matrix (rows: A_i
+   * = Σ_j m_ij a_j) is to be checked against the structure; @band_path is
+   * in the syntax of qv_band_path_parse (not parsed here); @mesh 0 0 0 when
+   * not given. */
+  QvStructure *primitive;      /* NULL without "crystal" */
+  gboolean has_supercell_matrix;
+  int supercell_matrix[3][3];
+  char *band_path;
+  int mesh[3];
 } QvBundle;
 
 /* @path is used for messages and to resolve a relative Hessian path, which

@@ -33,6 +33,17 @@ load_bundle (QvInput *input, QvBundle *bundle)
   input->hessian_source = g_strdup (bundle->hessian_path ? bundle->hessian_path : "inline in the bundle");
   if (input->hessian)
     input->layout = input->hessian->layout;
+  if (bundle->primitive != NULL)
+    {
+      QvInputCrystal *c = input->crystal = g_new0 (QvInputCrystal, 1);
+      c->primitive = g_steal_pointer (&bundle->primitive);
+      c->has_supercell_matrix = bundle->has_supercell_matrix;
+      memcpy (c->supercell_matrix, bundle->supercell_matrix, sizeof c->supercell_matrix);
+      c->band_path = g_steal_pointer (&bundle->band_path);
+      memcpy (c->mesh, bundle->mesh, sizeof c->mesh);
+      c->born_charges = g_steal_pointer (&bundle->born_charges);
+      memcpy (c->dielectric_tensor, bundle->dielectric_tensor, sizeof c->dielectric_tensor);
+    }
   return TRUE;
 }
 
@@ -176,10 +187,22 @@ qv_input_load (const QvInputOptions *options, GError **error)
 }
 
 void
+qv_input_crystal_free (QvInputCrystal *crystal)
+{
+  if (crystal == NULL)
+    return;
+  qv_structure_free (crystal->primitive);
+  g_free (crystal->band_path);
+  g_free (crystal->born_charges);
+  g_free (crystal);
+}
+
+void
 qv_input_free (QvInput *input)
 {
   if (input == NULL)
     return;
+  qv_input_crystal_free (input->crystal);
   g_free (input->name);
   qv_structure_free (input->structure);
   qv_hessian_free (input->hessian);

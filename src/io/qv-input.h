@@ -13,6 +13,20 @@ G_BEGIN_DECLS
 /* The demo bundle's path inside the GResource that front ends link. */
 #define QV_INPUT_DEMO_RESOURCE "/org/quaverlab/Quaver/examples/demo.quaver.json"
 
+/* A bundle's "crystal" (docs/formats.md): the structure is a supercell of
+ * @primitive and the Hessian the supercell's. */
+typedef struct {
+  QvStructure *primitive;
+  gboolean has_supercell_matrix;
+  int supercell_matrix[3][3];   /* rows: A_i = Σ_j m_ij a_j, to be checked */
+  char *band_path;              /* qv_band_path_parse syntax, or NULL: the default */
+  int mesh[3];                  /* 0 0 0: not given */
+  double *born_charges;         /* 9 per primitive site (e), or NULL */
+  double dielectric_tensor[3][3];
+} QvInputCrystal;
+
+void qv_input_crystal_free (QvInputCrystal *crystal);
+
 typedef struct {
   char *name;                   /* as the user gave it ("demo" for the demo) */
   QvStructure *structure;
@@ -27,6 +41,7 @@ typedef struct {
   QvDerivatives *derivatives;   /* a bundle's derivative tensors, or NULL */
   char *dipole_units;           /* as the bundle wrote them, or NULL */
   char *polarizability_units;
+  QvInputCrystal *crystal;      /* a bundle's "crystal", or NULL */
 } QvInput;
 
 typedef struct {

@@ -157,6 +157,27 @@ test_crystal (void **state)
   assert_int_equal (b->hessian->layout, QV_HESSIAN_LAYOUT_UPPER);
 }
 
+/* "crystal": the primitive cell, the supercell counts, the mesh, and Born
+ * charges per primitive site (docs/formats.md, "Crystals"). */
+static void
+test_crystal_member (void **state)
+{
+  g_autoptr(QvBundle) b = load_ok ("good-docs-crystal.quaver.json");
+
+  assert_non_null (b->primitive);
+  assert_int_equal (b->primitive->n_atoms, 2);
+  assert_true (b->primitive->has_cell);
+  assert_true (b->primitive->cell[0][1] == 2.82);
+  assert_true (b->has_supercell_matrix);
+  assert_int_equal (b->supercell_matrix[0][0], 1);
+  assert_int_equal (b->supercell_matrix[0][1], 0);
+  assert_int_equal (b->mesh[2], 12);
+  assert_null (b->band_path);
+  assert_non_null (b->born_charges);
+  assert_true (b->born_charges[9] == -1.1);
+  assert_true (b->has_dielectric && b->dielectric_tensor[2][2] == 2.4);
+}
+
 static void
 test_slab_and_view (void **state)
 {
@@ -423,6 +444,15 @@ static const BadCase bad_cases[] = {
   { "bad-cell-singular", "21:13: structure.cell: the lattice vectors are linearly "
                          "dependent" },
   { "bad-cell-shape", "23:7: structure.cell[1]: expected 3 numbers, found 2" },
+  /* a crystal: the supercell needs its cell, the primitive cell too */
+  { "bad-crystal-no-cell", "5:16: structure: a bundle with a \"crystal\" needs the supercell's "
+                           "\"cell\"" },
+  { "bad-crystal-primitive-cell", "82:18: crystal.primitive.cell: missing; the primitive cell "
+                                  "needs its lattice vectors" },
+  { "bad-crystal-supercell", "121:7: crystal.supercell[1]: expected an integer from 1 to 1000, "
+                             "found a number" },
+  { "bad-crystal-born-count", "132:13: born_charges.data: expected one 3x3 tensor per site of "
+                              "the primitive cell (2), found 3" },
   { "bad-pbc-no-cell", "21:12: structure.pbc: periodic directions need a \"cell\"" },
   { "bad-pbc-type", "21:13: structure.pbc[0]: expected true or false, "
                     "found an integer" },
@@ -979,6 +1009,7 @@ main (void)
     cmocka_unit_test (test_inline_layouts),
     cmocka_unit_test (test_structure),
     cmocka_unit_test (test_crystal),
+    cmocka_unit_test (test_crystal_member),
     cmocka_unit_test (test_slab_and_view),
     cmocka_unit_test (test_path_hessians),
     cmocka_unit_test (test_units),

@@ -1,0 +1,244 @@
+/* test-lattice-app.c — a crystal in the app: the bundled demo crystal
+ * opens on its lattice page, whose dispersion holds exactly what `quaver
+ * bands` computes from the same inputs (the command is itself checked
+ * against an independent NumPy D(q) in tests/lattice/test_bands_numpy.py);
+ * a click on a branch shows that lattice mode on a block of cells with a
+ * complex field, the read-out names the point, the cells spin rebuilds the
+ * block, the plots save, and the supercell's own modes are one page away.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <cmocka.h>
+#include <glib/gstdio.h>
+#include <json-glib/json-glib.h>
+#include <math.h>
+#include <string.h>
+#include "gui-test-util.h"
+#include "qv-dispersion-plot.h"
+#include "qv-error.h"
+
+#define CRYSTAL_DIR "data/examples/rocksalt-springs"
+
+static char *
+source_path (const char *relative)
+{
+  return g_build_filename (g_getenv ("QV_SOURCE_ROOT"), relative, NULL);
+}
+
+static QvWindow *
+open_crystal (void)
+{
+  QvWindow *window = qvg_window ();
+  g_autofree char *path = source_path (CRYSTAL_DIR "/mx.quaver.json");
+  QvDocumentSource source = { .geometry = path };
+
+  qv_window_open_source (window, &source);
+  assert_true (qvg_wait (qvg_window_has_document, window, 120.0));
+  assert_true (qvg_wait (qvg_window_idle, window, 120.0));
+  qvg_spin (0.3);
+  return window;
+}
+
+/* `quaver bands` on the same crystal as plain files, as JSON. */
+static JsonParser *
+bands_from_cli (void)
+{
+  g_autofree char *dir = source_path (CRYSTAL_DIR);
+  const char *argv[] = { g_getenv ("QUAVER"), "bands", "mx-primitive.xyz", "-S", "mx-supercell.xyz",
+                         "-H", "mx.hessian.npy", "-u", "eV/A^2", "--born", "mx.born.txt",
+                         "--points", G_STRINGIFY (QV_DOCUMENT_LATTICE_PATH_POINTS), "-f", "json",
+                         NULL };
+  g_autofree char *out = NULL, *err = NULL;
+  int status = -1;
+  JsonParser *parser = json_parser_new ();
+
+  assert_true (g_spawn_sync (dir, (char **) argv, NULL, G_SPAWN_DEFAULT, NULL, NULL, &out, &err,
+                             &status, NULL));
+  if (status != 0)
+    print_error ("quaver bands: %s\n", err);
+  assert_int_equal (status, 0);
+  assert_true (json_parser_load_from_data (parser, out, -1, NULL));
+  return parser;
+}
+
+static void
+test_dispersion_is_the_commands (void **state)
+{
+  QvWindow *window = open_crystal ();
+  QvDocument *doc = qv_window_get_document (window);
+  const QvDocumentLattice *l = qv_document_get_lattice (doc);
+  g_autoptr(JsonParser) parser = bands_from_cli ();
+  JsonArray *points = json_object_get_array_member (json_node_get_object (json_parser_get_root (parser)),
+                                                    "points");
+  double worst = 0;
+  (void) state;
+
+  assert_non_null (l);
+  assert_non_null (l->bands);
+  assert_string_equal (qv_window_get_side_page (window), "lattice");
+  assert_true (qv_window_get_side_switcher_visible (window));
+  /* rock salt: space group Fm-3m, No. 225 (International Tables for
+   * Crystallography A; common knowledge) */
+  assert_string_equal (l->space_group, "Fm-3m (225)");
+  assert_non_null (l->crystal->na);
+  assert_int_equal (json_array_get_length (points), l->sampling->n_q);
+  for (gsize k = 0; k < l->sampling->n_q; k++)
+    {
+      JsonObject *p = json_array_get_object_element (points, (guint) k);
+      JsonArray *w = json_object_get_array_member (p, "wavenumbers");
+      JsonArray *q = json_object_get_array_member (p, "q");
+      assert_int_equal (json_array_get_length (w), l->n_branches);
+      for (int c = 0; c < 3; c++)
+        assert_true (fabs (json_array_get_double_element (q, c) - l->sampling->q[3 * k + c]) < 1e-6);
+      for (gsize b = 0; b < l->n_branches; b++)
+        worst = MAX (worst, fabs (json_array_get_double_element (w, (guint) b)
+                                  - l->bands[k * l->n_branches + b]));
+    }
+  /* the command prints 4 decimals; the Γ zeros are rounding noise */
+  assert_true (worst < 1e-3);
+  /* the DOS and thermal properties are there too */
+  assert_non_null (l->dos);
+  assert_non_null (l->thermal);
+  gtk_window_destroy (GTK_WINDOW (window));
+}
+
+static void
+test_click_shows_lattice_mode (void **state)
+{
+  QvWindow *window = open_crystal ();
+  QvDocument *doc = qv_window_get_document (window);
+  const QvDocumentLattice *l = qv_document_get_lattice (doc);
+  QvLatticePane *pane = qv_window_get_lattice_pane (window);
+  QvModeView *view = qv_window_get_mode_view (window);
+  GtkWidget *area = qv_lattice_pane_get_dispersion_area (pane);
+  QvDispersionPlotOptions o;
+  double px, py;
+  int k, b, cells;
+  gsize target_q;
+  g_autofree char *text = NULL;
+  (void) state;
+
+  /* opened on a zone-boundary mode, shown on a block of cells */
+  qv_lattice_pane_get_selected (pane, &k, &b);
+  assert_true (k > 0);
+  cells = qv_lattice_pane_get_cells (pane);
+  assert_int_equal (qv_mode_view_get_n_atoms (view), (gsize) (2 * cells * cells * cells));
+
+  /* aim at the lowest branch at the L point (a label of the path) */
+  target_q = l->sampling->label_index[5];
+  assert_true (strstr (l->sampling->labels[5], "L") != NULL);
+  qv_dispersion_plot_options_init (&o);
+  o.width = gtk_widget_get_width (area);
+  o.height = gtk_widget_get_height (area);
+  assert_true (o.width > 100 && o.height > 100);
+  {
+    /* the lowest branch at that q in the connected order */
+    gsize low = 0;
+    for (gsize j = 1; j < l->n_branches; j++)
+      if (l->bands[target_q * l->n_branches + j] < l->bands[target_q * l->n_branches + low])
+        low = j;
+    assert_true (qv_dispersion_plot_point_to_pixel (l->sampling, l->n_branches, l->bands, &o,
+                                                    target_q, low, &px, &py));
+    assert_true (qv_lattice_pane_click (pane, px, py));
+    qv_lattice_pane_get_selected (pane, &k, &b);
+    assert_int_equal (k, (int) target_q);
+    /* degenerate transverse branches at L: any of them */
+    assert_true (fabs (l->bands[target_q * l->n_branches + (gsize) b]
+                       - l->bands[target_q * l->n_branches + low]) < 1e-6);
+  }
+  qvg_spin (0.2);
+  assert_true (qv_mode_view_is_complex (view));
+  assert_non_null (strstr (qv_motion_bar_get_summary (qv_window_get_motion_bar (window)), "0.300"));
+  text = qv_lattice_pane_describe_point (pane, px, py);
+  assert_non_null (strstr (text, "L"));
+  assert_non_null (strstr (text, "q = (0.500 0.500 0.500)"));
+
+  /* a miss selects nothing new */
+  assert_false (qv_lattice_pane_click (pane, 2, 2));
+
+  /* two cells along each vector: 16 atoms */
+  g_object_set (pane, "cells", 2, NULL);
+  qvg_spin (0.2);
+  assert_int_equal (qv_mode_view_get_n_atoms (view), 16);
+
+  /* the supercell's own modes: its 54 atoms, a real mode */
+  qv_window_show_side_page (window, "modes");
+  qvg_spin (0.2);
+  assert_int_equal (qv_mode_view_get_n_atoms (view), 54);
+  assert_false (qv_mode_view_is_complex (view));
+  qv_window_show_side_page (window, "lattice");
+  qvg_spin (0.2);
+  assert_int_equal (qv_mode_view_get_n_atoms (view), 16);
+  gtk_window_destroy (GTK_WINDOW (window));
+}
+
+static gboolean
+file_starts_with (const char *path, const char *magic, gsize n)
+{
+  g_autofree char *data = NULL;
+  gsize length = 0;
+  return g_file_get_contents (path, &data, &length, NULL) && length > n && memcmp (data, magic, n) == 0;
+}
+
+static void
+test_save (void **state)
+{
+  QvWindow *window = open_crystal ();
+  QvLatticePane *pane = qv_window_get_lattice_pane (window);
+  g_autofree char *dir = g_dir_make_tmp ("qv-lattice-XXXXXX", NULL);
+  g_autofree char *svg = g_build_filename (dir, "bands.svg", NULL);
+  g_autofree char *png = g_build_filename (dir, "bands.png", NULL);
+  g_autofree char *bad = g_build_filename (dir, "bands.doc", NULL);
+  g_autoptr(GError) error = NULL;
+  (void) state;
+
+  assert_true (qv_lattice_pane_save (pane, svg, FALSE, &error));
+  assert_true (qv_lattice_pane_save (pane, png, FALSE, &error));
+  assert_true (file_starts_with (png, "\x89PNG\r\n\x1a\n", 8));
+  {
+    g_autofree char *data = NULL;
+    assert_true (g_file_get_contents (svg, &data, NULL, NULL));
+    assert_non_null (strstr (data, "<svg"));
+  }
+  /* not overwritten without being asked */
+  assert_false (qv_lattice_pane_save (pane, svg, FALSE, &error));
+  g_clear_error (&error);
+  assert_true (qv_lattice_pane_save (pane, svg, TRUE, &error));
+  assert_false (qv_lattice_pane_save (pane, bad, FALSE, &error));
+  assert_non_null (strstr (error->message, ".svg"));
+  g_clear_error (&error);
+  g_unlink (svg);
+  g_unlink (png);
+  g_rmdir (dir);
+  gtk_window_destroy (GTK_WINDOW (window));
+}
+
+/* A molecule has no lattice page. */
+static void
+test_molecule_has_no_lattice (void **state)
+{
+  QvWindow *window = qvg_window ();
+  (void) state;
+
+  qv_window_open_demo (window);
+  assert_true (qvg_wait (qvg_window_has_document, window, 60.0));
+  assert_true (qvg_wait (qvg_window_idle, window, 60.0));
+  assert_null (qv_document_get_lattice (qv_window_get_document (window)));
+  assert_false (qv_window_get_side_switcher_visible (window));
+  assert_string_equal (qv_window_get_side_page (window), "modes");
+  gtk_window_destroy (GTK_WINDOW (window));
+}
+
+int
+main (void)
+{
+  const struct CMUnitTest tests[] = {
+    cmocka_unit_test (test_dispersion_is_the_commands),
+    cmocka_unit_test (test_click_shows_lattice_mode),
+    cmocka_unit_test (test_save),
+    cmocka_unit_test (test_molecule_has_no_lattice),
+  };
+  qvg_app ();
+  return cmocka_run_group_tests (tests, NULL, NULL);
+}
