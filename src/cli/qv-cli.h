@@ -49,6 +49,7 @@ int qv_cmd_ensemble (int argc, char **argv);
 int qv_cmd_stencil (int argc, char **argv);
 int qv_cmd_collect (int argc, char **argv);
 int qv_cmd_displace (int argc, char **argv);
+int qv_cmd_anharmonic (int argc, char **argv);
 int qv_cmd_table (int argc, char **argv);
 int qv_cmd_bands (int argc, char **argv);
 int qv_cmd_dos (int argc, char **argv);

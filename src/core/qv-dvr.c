@@ -16,15 +16,24 @@ qv_dvr_kinetic_prefactor (void)
 
 void
 qv_dvr_grid_span (QvDvrGrid *grid, guint dim, const gsize n[], const double lo[],
-                  const double hi[])
+                  const double hi[], gboolean walls)
 {
   memset (grid, 0, sizeof *grid);
   grid->dim = dim;
+  grid->walls = walls;
   for (guint d = 0; d < dim; d++)
     {
       grid->n[d] = n[d];
-      grid->lo[d] = lo[d];
-      grid->step[d] = n[d] > 1 ? (hi[d] - lo[d]) / (double) (n[d] - 1) : 0.0;
+      if (walls)
+        {
+          grid->step[d] = (hi[d] - lo[d]) / (double) (n[d] + 1);
+          grid->lo[d] = lo[d] + grid->step[d];
+        }
+      else
+        {
+          grid->lo[d] = lo[d];
+          grid->step[d] = n[d] > 1 ? (hi[d] - lo[d]) / (double) (n[d] - 1) : 0.0;
+        }
     }
 }
 
@@ -58,10 +67,37 @@ qv_dvr_levels_free (QvDvrLevels *levels)
 }
 
 void
-qv_dvr_kinetic_matrix (gsize n, double step, double kinetic, double *t)
+qv_dvr_kinetic_matrix (gsize n, double step, double kinetic, gboolean walls, double *t)
 {
   const double f = kinetic / (step * step);
 
+  if (walls)
+    {
+      /* Colbert & Miller eq. (A6): the interval (a, b) with N = n + 1,
+       * b − a = N·step, points i = 1..N−1 */
+      const double N = (double) (n + 1);
+      const double g = kinetic * G_PI * G_PI / (2.0 * N * N * step * step);
+      for (gsize j = 0; j < n; j++)
+        for (gsize i = 0; i < n; i++)
+          {
+            const double ii = (double) (i + 1), jj = (double) (j + 1);
+            const double sign = ((i + j) % 2 == 0) ? 1.0 : -1.0;
+            double value;
+            if (i == j)
+              {
+                const double si = sin (G_PI * ii / N);
+                value = (2.0 * N * N + 1.0) / 3.0 - 1.0 / (si * si);
+              }
+            else
+              {
+                const double sm = sin (G_PI * (ii - jj) / (2.0 * N));
+                const double sp = sin (G_PI * (ii + jj) / (2.0 * N));
+                value = 1.0 / (sm * sm) - 1.0 / (sp * sp);
+              }
+            t[i + n * j] = g * sign * value;
+          }
+      return;
+    }
   for (gsize j = 0; j < n; j++)
     for (gsize i = 0; i < n; i++)
       {
@@ -110,11 +146,11 @@ qv_dvr_solve (const QvDvrGrid *grid, const double *potential, double kinetic,
   {
     const gsize n0 = grid->n[0], n1 = grid->dim == 2 ? grid->n[1] : 1;
     t0 = g_new (double, n0 * n0);
-    qv_dvr_kinetic_matrix (n0, grid->step[0], kinetic, t0);
+    qv_dvr_kinetic_matrix (n0, grid->step[0], kinetic, grid->walls, t0);
     if (grid->dim == 2)
       {
         t1 = g_new (double, n1 * n1);
-        qv_dvr_kinetic_matrix (n1, grid->step[1], kinetic, t1);
+        qv_dvr_kinetic_matrix (n1, grid->step[1], kinetic, grid->walls, t1);
       }
     for (gsize j1 = 0; j1 < n1; j1++)
       for (gsize j0 = 0; j0 < n0; j0++)
@@ -251,6 +287,7 @@ qv_dvr_refine_options_init (QvDvrRefineOptions *options, guint dim)
   options->n_levels = 1;
   /* 1e-6 cm⁻¹ as an energy: h·c·(100 cm⁻¹ per m⁻¹)/e */
   options->tolerance = 1e-6 * QV_PLANCK * QV_SPEED_OF_LIGHT * 100.0 / QV_ELEMENTARY_CHARGE;
+  options->walls = TRUE;
   options->start_points = dim == 2 ? 15 : 33;
   options->max_points = dim == 2 ? 49 : 2049;
 }
@@ -297,7 +334,7 @@ qv_dvr_refine (const QvDvrRefineOptions *options, QvDvrPotential potential,
       gsize size;
       double x[2];
 
-      qv_dvr_grid_span (&grid, dim, nn, options->lo, options->hi);
+      qv_dvr_grid_span (&grid, dim, nn, options->lo, options->hi, options->walls);
       size = qv_dvr_grid_size (&grid);
       if (size > QV_DVR_MAX_POINTS && r->levels)
         break;

@@ -21,17 +21,24 @@ G_BEGIN_DECLS
 double qv_dvr_kinetic_prefactor (void);
 
 /* A uniform grid: x_i = lo[d] + i·step[d], i = 0..n[d]-1, along @dim (1 or 2)
- * axes. Point (i0, i1) has index i0 + n[0]·i1 (first axis fastest). */
+ * axes. Point (i0, i1) has index i0 + n[0]·i1 (first axis fastest).
+ * Without @walls the kinetic energy is that of the whole line (Colbert &
+ * Miller eq. A7); with @walls that of the interval (a, b) with the
+ * wavefunction zero at a = lo − step and b = lo + n·step (eq. A6), so a
+ * level that reaches the ends still converges, to the level of that box. */
 typedef struct {
   guint dim;
   gsize n[2];
   double lo[2];
   double step[2];
+  gboolean walls;
 } QvDvrGrid;
 
-/* The grid of @n[d] points spanning [lo[d], hi[d]] end points included. */
+/* Without @walls: @n[d] points spanning [lo[d], hi[d]], end points
+ * included. With @walls: @n[d] points strictly inside (lo[d], hi[d]), which
+ * are the walls a and b. */
 void qv_dvr_grid_span (QvDvrGrid *grid, guint dim, const gsize n[], const double lo[],
-                       const double hi[]);
+                       const double hi[], gboolean walls);
 gsize qv_dvr_grid_size (const QvDvrGrid *grid);
 /* Coordinates of point @index into @x (dim values). */
 void qv_dvr_grid_point (const QvDvrGrid *grid, gsize index, double *x);
@@ -47,11 +54,13 @@ typedef struct {
 void qv_dvr_levels_free (QvDvrLevels *levels);
 G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvDvrLevels, qv_dvr_levels_free)
 
-/* The one-dimensional kinetic matrix of Colbert & Miller's eq. (A7) for the
- * interval (−∞, ∞), T_ij = ħ²/(2Δx²)·(−1)^(i−j)·{π²/3 if i = j, 2/(i−j)²
- * otherwise}, n×n column-major into @t, for a unit mass and prefactor
- * @kinetic (= ħ²/2). */
-void qv_dvr_kinetic_matrix (gsize n, double step, double kinetic, double *t);
+/* The one-dimensional kinetic matrix, n×n column-major into @t, for a unit
+ * mass and prefactor @kinetic (= ħ²/2). Without @walls Colbert & Miller's
+ * eq. (A7) for (−∞, ∞): T_ij = (ħ²/2Δx²)(−1)^(i−j){π²/3 if i = j, 2/(i−j)²
+ * otherwise}. With @walls eq. (A6) for (a, b), N = n + 1, b − a = NΔx:
+ * T_ij = (ħ²/2)(π²/(2(b−a)²))(−1)^(i−j){(2N²+1)/3 − 1/sin²(πi/N) if i = j,
+ * 1/sin²(π(i−j)/2N) − 1/sin²(π(i+j)/2N) otherwise}, i, j = 1..N−1. */
+void qv_dvr_kinetic_matrix (gsize n, double step, double kinetic, gboolean walls, double *t);
 
 /* The lowest @n_levels eigenpairs of H = T + V on @grid, @potential holding
  * V at every grid point (eV). QV_ERROR_LIMIT above QV_DVR_MAX_POINTS,
@@ -81,7 +90,9 @@ typedef struct {
 
 typedef struct {
   guint dim;
-  double lo[2], hi[2];     /* the interval of each axis, end points included */
+  double lo[2], hi[2];     /* the interval of each axis */
+  gboolean walls;          /* lo and hi are walls (default), see QvDvrGrid;
+                              FALSE: grid points on lo and hi, free line */
   gsize n_levels;
   double tolerance;        /* eV: stop when every level moved less */
   gsize start_points;      /* per axis, first grid (default 33 in 1-D, 15 in 2-D) */
@@ -103,7 +114,7 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC (QvDvrRefinement, qv_dvr_refinement_free)
  * the points each step) until two successive grids agree on every one of
  * the lowest @n_levels levels within @tolerance, or @max_points is reached
  * (then converged is FALSE and the caller warns). The grid never leaves
- * [lo, hi]. */
+ * [lo, hi], so the potential is never asked for outside it. */
 QvDvrRefinement *qv_dvr_refine (const QvDvrRefineOptions *options, QvDvrPotential potential,
                                 gpointer user_data, double kinetic, GError **error);
 

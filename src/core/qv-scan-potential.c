@@ -482,7 +482,7 @@ hessian_at (const QvScanPotential *p, const double *x, double hess[2][2])
 {
   double h[2];
   for (guint d = 0; d < p->dim; d++)
-    h[d] = 1e-3 * (p->hi[d] - p->lo[d]);
+    h[d] = 1e-5 * (p->hi[d] - p->lo[d]);
   for (guint i = 0; i < p->dim; i++)
     for (guint j = i; j < p->dim; j++)
       {

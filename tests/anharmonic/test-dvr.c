@@ -78,12 +78,14 @@ harmonic (const double *x, gpointer data)
 static void
 test_harmonic_levels (void **state)
 {
-  /* λ = 30 eV/(Å² u) (about 2860 cm⁻¹) and 0.5 (a soft 370 cm⁻¹ mode) */
+  /* λ = 30 eV/(Å² u) (about 2860 cm⁻¹) and 0.5 (a soft 370 cm⁻¹ mode),
+   * on the free line (eq. A7) and between walls far out (eq. A6) */
   const double lambdas[] = { 30.0, 0.5 };
 
-  for (gsize c = 0; c < G_N_ELEMENTS (lambdas); c++)
+  for (gsize c = 0; c < 2 * G_N_ELEMENTS (lambdas); c++)
     {
-      Harmonic h = { lambdas[c] };
+      Harmonic h = { lambdas[c / 2] };
+      const gboolean walls = c % 2;
       const double hw = hbar_omega (h.lambda);
       const double qtp = sqrt (9 * hbar_over_omega (h.lambda));    /* v = 4 */
       const gsize n = 161;
@@ -93,8 +95,10 @@ test_harmonic_levels (void **state)
       g_autoptr(QvDvrLevels) levels = NULL;
       g_autoptr(GError) error = NULL;
 
-      qv_dvr_grid_span (&grid, 1, &n, &lo, &hi);
-      assert_abs (grid.lo[0] + (double) (n - 1) * grid.step[0], hi, 1e-14);
+      qv_dvr_grid_span (&grid, 1, &n, &lo, &hi, walls);
+      /* the points: on the ends, or strictly inside the walls */
+      assert_abs (grid.lo[0] + (double) (n - 1) * grid.step[0] + (walls ? grid.step[0] : 0), hi, 1e-14);
+      assert_abs (grid.lo[0] - (walls ? grid.step[0] : 0), lo, 1e-14);
       for (gsize i = 0; i < n; i++)
         {
           double x;
@@ -124,6 +128,26 @@ test_harmonic_levels (void **state)
     }
 }
 
+/* With walls and no potential: the particle in a box of length L,
+ * E_k = ħ²π²k²/(2L²), k = 1, 2, … (Griffiths ch. 2), which the (a, b) DVR
+ * of Colbert & Miller reproduces exactly (its basis is the box's sines). */
+static void
+test_box_levels (void **state)
+{
+  const gsize n = 40;
+  const double lo = -0.3, hi = 0.9, L = hi - lo;
+  QvDvrGrid grid;
+  g_autofree double *v = g_new0 (double, n);
+  g_autoptr(QvDvrLevels) levels = NULL;
+
+  qv_dvr_grid_span (&grid, 1, &n, &lo, &hi, TRUE);
+  levels = qv_dvr_solve (&grid, v, qv_dvr_kinetic_prefactor (), 6, NULL);
+  assert_non_null (levels);
+  for (guint k = 0; k < 6; k++)
+    assert_rel (levels->energies[k], hbar * hbar * M_PI * M_PI * (k + 1) * (k + 1)
+                                     / (2 * m_u * L * L * 1e-20) / e_charge, 1e-10);
+}
+
 /* A box too small: the ground state presses on the walls and the edge
  * weight says so. */
 static void
@@ -137,7 +161,7 @@ test_edge_weight (void **state)
   g_autofree double *v = g_new (double, n);
   g_autoptr(QvDvrLevels) levels = NULL;
 
-  qv_dvr_grid_span (&grid, 1, &n, &lo, &hi);
+  qv_dvr_grid_span (&grid, 1, &n, &lo, &hi, FALSE);
   for (gsize i = 0; i < n; i++)
     {
       double x;
@@ -207,9 +231,9 @@ test_morse_dvr_and_refinement (void **state)
       double worst = 0.0;
 
       assert_true (b->n[0] > a->n[0]);
-      assert_abs (o.lo[0] + (double) (b->n[0] - 1) * b->step[0], o.hi[0], 1e-12);
-      qv_dvr_grid_span (&ga, 1, a->n, o.lo, o.hi);
-      qv_dvr_grid_span (&gb, 1, b->n, o.lo, o.hi);
+      assert_abs (o.lo[0] + (double) (b->n[0] + 1) * b->step[0], o.hi[0], 1e-12);
+      qv_dvr_grid_span (&ga, 1, a->n, o.lo, o.hi, TRUE);
+      qv_dvr_grid_span (&gb, 1, b->n, o.lo, o.hi, TRUE);
       {
         g_autofree double *va = g_new (double, a->n[0]), *vb = g_new (double, b->n[0]);
         for (gsize i = 0; i < a->n[0]; i++)
@@ -493,6 +517,7 @@ main (int argc, char **argv)
   const struct CMUnitTest tests[] = {
     cmocka_unit_test (test_kinetic_prefactor),
     cmocka_unit_test (test_harmonic_levels),
+    cmocka_unit_test (test_box_levels),
     cmocka_unit_test (test_edge_weight),
     cmocka_unit_test (test_morse_dvr_and_refinement),
     cmocka_unit_test (test_morse_scan),
