@@ -7,16 +7,20 @@
 #include "qv-band-path.h"
 #include "qv-cli.h"
 #include "qv-cli-lattice.h"
+#include "qv-cli-plot.h"
 #include "qv-nonanalytic.h"
 #include "qv-config.h"
 #include "qv-dynamical-matrix.h"
 #include "qv-error.h"
 #include "qv-force-constants.h"
 #include "qv-hessian-file.h"
-#include "qv-json-writer.h"
+#include "qv-phonon-table.h"
 #include "qv-supercell.h"
 #include "qv-units.h"
 #include "qv-xyz.h"
+#ifdef QV_HAVE_RENDER
+#include "qv-dispersion-plot.h"
+#endif
 
 static const char bands_description_head[] =
   "Phonon dispersion of a crystal: the force constants of a supercell are\n"
@@ -38,39 +42,20 @@ static const char bands_description_tail[] =
   "Output (--format): text (default; columns distance, q, branches), csv,\n"
   "json (per q point: q, distance, wavenumbers of every branch in cm^-1;\n"
   "plus the labels and their distances). Negative wavenumbers are imaginary.\n"
+  "\n";
+
+static const char bands_examples[] =
   "\n"
   "Examples:\n"
   "  quaver bands prim.xyz --supercell-structure sc.xyz -H sc.hess -u eV/A^2\n"
   "  quaver bands prim.xyz --supercell 4x4x4 -H fc.npy -u hartree/bohr^2 -f json -o bands.json\n"
   "  quaver bands prim.xyz -S sc.xyz -H sc.hess -u eV/A^2 \\\n"
   "      --path \"G 0 0 0; X 0.5 0 0.5; W 0.5 0.25 0.75 | K 0.375 0.375 0.75; G\" --points 300\n"
+  "  quaver bands prim.xyz -S sc.xyz -H sc.hess -u eV/A^2 -f csv -o bands.csv --plot bands.svg\n"
   "\n"
   "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.\n"
   "Harmonic phonons are an approximation: validate them before relying on them.";
 
-
-static char *
-fmt (double v, const char *format)
-{
-  char buf[G_ASCII_DTOSTR_BUF_SIZE];
-  return g_strdup (g_ascii_formatd (buf, sizeof buf, format, v + 0.0));
-}
-
-static void
-append_num (GString *s, double v, const char *format)
-{
-  g_autofree char *t = fmt (v, format);
-  g_string_append (s, t);
-}
-
-static char *
-label_at (const QvBandSampling *s, gsize k)
-{
-  for (gsize i = 0; i < s->n_labels; i++)
-    if (s->label_index[i] == k)
-      return s->labels[i];
-  return NULL;
-}
 
 int
 qv_cmd_bands (int argc, char **argv)
@@ -92,7 +77,10 @@ qv_cmd_bands (int argc, char **argv)
   g_autoptr(QvPhononSet) set = NULL;
   g_autofree guint *order = NULL;
   g_autofree char *path_text = NULL;
-  g_autoptr(GString) out = NULL;
+  g_autofree double *connected = NULL;
+  g_autofree char *table = NULL;
+  QvCliPlot plot = { NULL };
+  QvBandTableInfo info;
   gboolean overlap = TRUE;
   QvCliLatticeFormat format = QV_CLI_LATTICE_TEXT;
   QvProgress progress = { qv_cli_progress, NULL };
@@ -106,17 +94,21 @@ qv_cmd_bands (int argc, char **argv)
     { "format", 'f', 0, G_OPTION_ARG_STRING, &format_arg, "text (default), csv, json", "FORMAT" },
     { "output", 'o', 0, G_OPTION_ARG_FILENAME, &output, "Write to FILE instead of standard output", "FILE" },
     { "force", 0, 0, G_OPTION_ARG_NONE, &force, "Replace an existing output file", NULL },
+    QV_CLI_PLOT_ENTRIES (&plot),
     { NULL }
   };
 
   g_set_prgname ("quaver bands");
   context = g_option_context_new ("PRIMITIVE");
   g_option_context_set_summary (context, "Phonon dispersion along a path from a supercell Hessian.");
-  description = g_strconcat (bands_description_head, qv_cli_lattice_help, bands_description_tail, NULL);
+  description = g_strconcat (bands_description_head, qv_cli_lattice_help, bands_description_tail,
+                             qv_cli_plot_help, bands_examples, NULL);
   g_option_context_set_description (context, description);
   if (!qv_cli_lattice_parse ("bands", context, &lo, entries, &argc, &argv, &error))
     goto fail;
   if (format_arg && !qv_cli_lattice_format_parse (format_arg, &format, &error))
+    goto fail;
+  if (!qv_cli_plot_check (&plot, output, force, 900, 500, &error))
     goto fail;
   if (connect_arg)
     {
@@ -193,132 +185,61 @@ qv_cmd_bands (int argc, char **argv)
     for (gsize i = 0; i < sampling->n_q * nb; i++)
       order[i] = (guint) (i % nb);
   path_text = qv_band_path_to_string (path);
-
-  if (format == QV_CLI_LATTICE_JSON)
-    {
-      QvJsonWriter *w = qv_json_writer_new ();
-      double m[9];
-      char *doc;
-      qv_json_begin_object (w, NULL);
-      qv_json_string (w, "program", "quaver bands " QV_VERSION);
-      qv_json_string (w, "primitive", argv[1]);
-      qv_json_string (w, "hessian", lo.hessian);
-      qv_json_string (w, "hessian_units", qv_hessian_unit_name (lattice->unit));
-      if (lo.born)
-        qv_json_string (w, "born", lo.born);
-      for (int i = 0; i < 9; i++)
-        m[i] = map->matrix[i / 3][i % 3];
-      qv_json_numbers (w, "supercell_matrix", m, 9);
-      qv_json_int (w, "n_sites", (gint64) map->n_primitive);
-      qv_json_int (w, "n_branches", (gint64) nb);
-      if (path->lattice)
-        qv_json_string (w, "lattice", path->lattice);
-      else
-        qv_json_null (w, "lattice");
-      qv_json_string (w, "path", path_text);
-      qv_json_string (w, "q_convention",
-                      "fractional reciprocal coordinates without 2 pi: q = sum_i q_i b_i, a_i.b_j = 2 pi delta_ij");
-      qv_json_string (w, "distance_unit", "1/angstrom (with 2 pi)");
-      qv_json_string (w, "wavenumber_unit", "cm^-1 (negative: imaginary)");
-      qv_json_string (w, "phase_convention", "D(q) = sum_l Phi(l) exp(i q.(R_l + tau_k' - tau_k)) / sqrt(m_k m_k')");
-      qv_json_string (w, "connection", overlap ? "eigenvector overlap" : "ascending at each q");
-      qv_json_bool (w, "sum_rule", !lo.no_sum_rule);
-      qv_json_numbers (w, "gamma_acoustic_before_sum_rule", lattice->before, 3);
-      qv_json_number (w, "largest_row_sum_removed", lattice->row_sum);
-      qv_json_number (w, "periodicity_residual", qv_force_constants_periodicity (fc));
-      qv_json_begin_array (w, "labels");
-      for (gsize i = 0; i < sampling->n_labels; i++)
-        {
-          qv_json_begin_object (w, NULL);
-          qv_json_string (w, "label", sampling->labels[i]);
-          qv_json_number (w, "distance", sampling->label_distance[i]);
-          qv_json_int (w, "index", (gint64) sampling->label_index[i]);
-          qv_json_end_object (w);
-        }
-      qv_json_end_array (w);
-      qv_json_begin_array (w, "points");
-      {
-        g_autofree double *row = g_new (double, nb);
-        for (gsize k = 0; k < sampling->n_q; k++)
-          {
-            for (gsize b = 0; b < nb; b++)
-              row[b] = set->wavenumbers[k * nb + order[k * nb + b]];
-            qv_json_begin_object (w, NULL);
-            qv_json_numbers (w, "q", sampling->q + 3 * k, 3);
-            qv_json_number (w, "distance", sampling->distance[k]);
-            qv_json_numbers (w, "wavenumbers", row, nb);
-            qv_json_end_object (w);
-          }
-      }
-      qv_json_end_array (w);
-      qv_json_end_object (w);
-      doc = qv_json_writer_finish (w);
-      status = qv_cli_emit ("bands", output, doc, force);
-      g_free (doc);
-      goto out;
-    }
-
-  out = g_string_new (NULL);
-  if (format == QV_CLI_LATTICE_TEXT)
-    {
-      g_string_append_printf (out, "# quaver bands: %s, %" G_GSIZE_FORMAT " sites, supercell "
-                              "[%d %d %d; %d %d %d; %d %d %d] (%" G_GSIZE_FORMAT " cells), lattice %s\n",
-                              argv[1], map->n_primitive, map->matrix[0][0], map->matrix[0][1],
-                              map->matrix[0][2], map->matrix[1][0], map->matrix[1][1], map->matrix[1][2],
-                              map->matrix[2][0], map->matrix[2][1], map->matrix[2][2], map->n_cells,
-                              path->lattice ? path->lattice : "(user path)");
-      g_string_append_printf (out, "# path: %s\n", path_text);
-      g_string_append (out, "# q: fractional reciprocal coordinates (q = qa b1 + qb b2 + qc b3, "
-                            "a_i.b_j = 2 pi delta_ij); distance: 1/A with 2 pi\n");
-      g_string_append_printf (out, "# wavenumbers: cm^-1, negative = imaginary; branches %s\n",
-                              overlap ? "connected by eigenvector overlap" : "in ascending order at each q");
-      g_string_append (out, lo.no_sum_rule ? "# acoustic at Gamma (no sum rule imposed):"
-                                        : "# acoustic at Gamma before the sum rule:");
-      for (int i = 0; i < 3; i++)
-        {
-          g_string_append_c (out, ' ');
-          append_num (out, lattice->before[i], "%.4f");
-        }
-      g_string_append (out, " cm^-1\n# labels:");
-      for (gsize i = 0; i < sampling->n_labels; i++)
-        {
-          g_string_append_printf (out, " %s ", sampling->labels[i]);
-          append_num (out, sampling->label_distance[i], "%.6f");
-        }
-      g_string_append (out, "\n# distance qa qb qc");
-      for (gsize b = 0; b < nb; b++)
-        g_string_append_printf (out, " w%" G_GSIZE_FORMAT, b + 1);
-      g_string_append_c (out, '\n');
-    }
-  else
-    {
-      g_string_append (out, "distance_1/A,qa,qb,qc,label");
-      for (gsize b = 0; b < nb; b++)
-        g_string_append_printf (out, ",branch_%" G_GSIZE_FORMAT "_cm-1", b + 1);
-      g_string_append_c (out, '\n');
-    }
+  /* the wavenumbers in connected order, for the table and the figure alike */
+  connected = g_new (double, sampling->n_q * nb);
   for (gsize k = 0; k < sampling->n_q; k++)
-    {
-      const char *sep = format == QV_CLI_LATTICE_CSV ? "," : " ";
-      const char *label = label_at (sampling, k);
-      append_num (out, sampling->distance[k], "%.6f");
-      for (int i = 0; i < 3; i++)
-        {
-          g_string_append (out, sep);
-          append_num (out, sampling->q[3 * k + i], "%.6f");
-        }
-      if (format == QV_CLI_LATTICE_CSV)
-        g_string_append_printf (out, ",%s", label ? label : "");
-      for (gsize b = 0; b < nb; b++)
-        {
-          g_string_append (out, sep);
-          append_num (out, set->wavenumbers[k * nb + order[k * nb + b]], "%.4f");
-        }
-      if (format == QV_CLI_LATTICE_TEXT && label)
-        g_string_append_printf (out, "  # %s", label);
-      g_string_append_c (out, '\n');
-    }
-  status = qv_cli_emit ("bands", output, out->str, force);
+    for (gsize b = 0; b < nb; b++)
+      connected[k * nb + b] = set->wavenumbers[k * nb + order[k * nb + b]];
+
+  memset (&info, 0, sizeof info);
+  info.source.program = "quaver bands " QV_VERSION;
+  info.source.primitive = argv[1];
+  info.source.hessian = lo.hessian;
+  info.source.hessian_units = qv_hessian_unit_name (lattice->unit);
+  info.source.born = lo.born;
+  info.source.n_sites = map->n_primitive;
+  info.source.sum_rule = !lo.no_sum_rule;
+  memcpy (info.supercell, map->matrix, sizeof info.supercell);
+  info.n_cells = map->n_cells;
+  info.lattice = path->lattice;
+  info.path = path_text;
+  info.overlap = overlap;
+  memcpy (info.gamma_acoustic, lattice->before, sizeof info.gamma_acoustic);
+  info.row_sum_removed = lattice->row_sum;
+  info.periodicity_residual = qv_force_constants_periodicity (fc);
+  table = qv_phonon_table_bands (&info, sampling, nb, connected, format == QV_CLI_LATTICE_JSON ? QV_PHONON_TABLE_JSON
+                                 : format == QV_CLI_LATTICE_CSV ? QV_PHONON_TABLE_CSV : QV_PHONON_TABLE_TEXT);
+  status = qv_cli_emit ("bands", output, table, force);
+  if (status != QV_EXIT_OK || plot.path == NULL)
+    goto out;
+#ifdef QV_HAVE_RENDER
+  {
+    QvDispersionPlotOptions po;
+    g_autofree char *base = g_path_get_basename (argv[1]);
+    g_autofree char *title = g_strdup_printf ("%s \u2014 phonon dispersion%s", base,
+                                              lo.born ? " (with the LO-TO term)" : "");
+    gboolean ok;
+
+    qv_dispersion_plot_options_init (&po);
+    po.width = plot.width;
+    po.height = plot.height;
+    po.title = title;
+    if (plot.kind == QV_CLI_PLOT_SVG)
+      {
+        gsize length = 0;
+        g_autofree char *svg = qv_dispersion_plot_svg (sampling, nb, connected, &po, &length, &error);
+        ok = svg && qv_cli_plot_write_svg (&plot, svg, length, force, &error);
+      }
+    else
+      {
+        g_autofree guint8 *rgba = qv_dispersion_plot_rgba (sampling, nb, connected, &po, &error);
+        const char *text[] = { "Title", title, "Source", argv[1], "Path", path_text, NULL };
+        ok = rgba && qv_cli_plot_write_rgba (&plot, rgba, text, force, &error);
+      }
+    if (!ok)
+      goto fail;
+  }
+#endif
   goto out;
 
 fail:
@@ -327,5 +248,6 @@ out:
   qv_cli_lattice_options_clear (&lo);
   g_free (path_arg); g_free (format_arg); g_free (output);
   g_free (connect_arg);
+  qv_cli_plot_clear (&plot);
   return status;
 }

@@ -5,13 +5,16 @@
 #include <string.h>
 #include "qv-cli.h"
 #include "qv-cli-lattice.h"
+#include "qv-cli-plot.h"
 #include "qv-config.h"
-#include "qv-element.h"
 #include "qv-error.h"
-#include "qv-json-writer.h"
 #include "qv-phonon-dos.h"
 #include "qv-phonon-mesh.h"
+#include "qv-phonon-table.h"
 #include "qv-units.h"
+#ifdef QV_HAVE_RENDER
+#include "qv-dos-plot.h"
+#endif
 
 static const char dos_head[] =
   "Phonon density of states of a crystal: the force constants of a supercell\n"
@@ -38,28 +41,18 @@ static const char dos_tail[] =
   "\n"
   "Output (--format): text (default; columns frequency, total, one per\n"
   "element), csv, json (grid, total, partial per element, method, mesh).\n"
+  "\n";
+
+static const char dos_examples[] =
   "\n"
   "Examples:\n"
   "  quaver dos prim.xyz --supercell 4x4x4 -H fc.npy -u eV/A^2 --mesh 24x24x24\n"
   "  quaver dos prim.xyz -S sc.xyz -H sc.hess -u eV/A^2 --method gaussian --sigma 3 -f json -o dos.json\n"
+  "  quaver dos prim.xyz --supercell 4x4x4 -H fc.npy -u eV/A^2 --unit THz --plot dos.png --plot-size 1200x600\n"
   "\n"
   "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.\n"
   "Harmonic phonons are an approximation: validate them before relying on them.";
 
-
-static void
-append_num (GString *s, double v, const char *format)
-{
-  char buf[G_ASCII_DTOSTR_BUF_SIZE];
-  g_string_append (s, g_ascii_formatd (buf, sizeof buf, format, v + 0.0));
-}
-
-static const char *
-symbol (guint z)
-{
-  const QvElement *e = qv_element_from_z (z);
-  return e ? e->symbol : "X";
-}
 
 int
 qv_cmd_dos (int argc, char **argv)
@@ -74,7 +67,9 @@ qv_cmd_dos (int argc, char **argv)
   g_autofree char *description = NULL;
   g_autoptr(QvPhononMesh) mesh = NULL;
   g_autoptr(QvPhononDos) dos = NULL;
-  g_autoptr(GString) out = NULL;
+  g_autofree char *table = NULL;
+  QvCliPlot plot = { NULL };
+  QvDosTableInfo info;
   int n[3] = { 20, 20, 20 };
   QvDosOptions opt = { QV_DOS_TETRAHEDRON, 0, 0, 0, 0 };
   QvFrequencyUnit unit = QV_FREQUENCY_CM1;
@@ -93,13 +88,15 @@ qv_cmd_dos (int argc, char **argv)
     { "format", 'f', 0, G_OPTION_ARG_STRING, &format_arg, "text (default), csv, json", "FORMAT" },
     { "output", 'o', 0, G_OPTION_ARG_FILENAME, &output, "Write to FILE instead of standard output", "FILE" },
     { "force", 0, 0, G_OPTION_ARG_NONE, &force, "Replace an existing output file", NULL },
+    QV_CLI_PLOT_ENTRIES (&plot),
     { NULL }
   };
 
   g_set_prgname ("quaver dos");
   context = g_option_context_new ("PRIMITIVE");
   g_option_context_set_summary (context, "Phonon density of states on a q mesh from a supercell Hessian.");
-  description = g_strconcat (dos_head, qv_cli_lattice_help, dos_tail, NULL);
+  description = g_strconcat (dos_head, qv_cli_lattice_help, dos_tail, qv_cli_plot_help, dos_examples,
+                             NULL);
   g_option_context_set_description (context, description);
   if (!qv_cli_lattice_parse ("dos", context, &lo, entries, &argc, &argv, &error))
     goto fail;
@@ -108,6 +105,8 @@ qv_cmd_dos (int argc, char **argv)
       || (unit_arg && !qv_frequency_unit_parse (unit_arg, &unit, &error)))
     goto fail;
   if (format_arg && !qv_cli_lattice_format_parse (format_arg, &format, &error))
+    goto fail;
+  if (!qv_cli_plot_check (&plot, output, force, 900, 500, &error))
     goto fail;
   per_cm1 = qv_frequency_from_wavenumber (1.0, unit);
   if (sigma != -1 && !(sigma > 0 && isfinite (sigma)))
@@ -148,107 +147,49 @@ qv_cmd_dos (int argc, char **argv)
   if (dos == NULL)
     goto fail;
 
-  if (format == QV_CLI_LATTICE_JSON)
-    {
-      QvJsonWriter *w = qv_json_writer_new ();
-      g_autofree double *x = g_new (double, dos->n_points);
-      g_autofree double *y = g_new (double, dos->n_points);
-      double mesh_d[3] = { n[0], n[1], n[2] };
-      g_autofree char *dos_unit = g_strdup_printf ("states per %s per primitive cell",
-                                                   qv_frequency_unit_name (unit));
-      char *doc;
-      qv_json_begin_object (w, NULL);
-      qv_json_string (w, "program", "quaver dos " QV_VERSION);
-      qv_json_string (w, "primitive", argv[1]);
-      qv_json_string (w, "hessian", lo.hessian);
-      if (lo.born)
-        {
-          qv_json_string (w, "born", lo.born);
-          qv_json_string (w, "nonanalytic_at_gamma",
-                          "left out: no direction of approach (TO only at q = 0, weight 1/N_q)");
-        }
-      qv_json_string (w, "method", qv_dos_method_name (dos->method));
-      if (dos->method == QV_DOS_GAUSSIAN)
-        qv_json_number (w, "sigma", dos->sigma * per_cm1);
-      else
-        qv_json_null (w, "sigma");
-      qv_json_numbers (w, "mesh", mesh_d, 3);
-      qv_json_string (w, "mesh_kind", "Gamma-centred, no symmetry reduction");
-      qv_json_int (w, "n_q", (gint64) mesh->n_q);
-      qv_json_int (w, "n_sites", (gint64) lattice->map->n_primitive);
-      qv_json_number (w, "states_per_cell", 3.0 * lattice->map->n_primitive);
-      qv_json_string (w, "frequency_unit", qv_frequency_unit_name (unit));
-      qv_json_string (w, "dos_unit", dos_unit);
-      qv_json_bool (w, "sum_rule", !lo.no_sum_rule);
-      qv_json_number (w, "step", dos->step * per_cm1);
-      for (gsize b = 0; b < dos->n_points; b++)
-        {
-          x[b] = dos->omega[b] * per_cm1;
-          y[b] = dos->total[b] / per_cm1;
-        }
-      qv_json_numbers (w, "frequency", x, dos->n_points);
-      qv_json_numbers (w, "total", y, dos->n_points);
-      qv_json_begin_object (w, "partial");
-      for (gsize g = 0; g < dos->n_groups; g++)
-        {
-          for (gsize b = 0; b < dos->n_points; b++)
-            y[b] = dos->partial[g * dos->n_points + b] / per_cm1;
-          qv_json_numbers (w, symbol (dos->z[g]), y, dos->n_points);
-        }
-      qv_json_end_object (w);
-      qv_json_end_object (w);
-      doc = qv_json_writer_finish (w);
-      status = qv_cli_emit ("dos", output, doc, force);
-      g_free (doc);
-      goto out;
-    }
+  memset (&info, 0, sizeof info);
+  info.source.program = "quaver dos " QV_VERSION;
+  info.source.primitive = argv[1];
+  info.source.hessian = lo.hessian;
+  info.source.born = lo.born;
+  info.source.n_sites = lattice->map->n_primitive;
+  info.source.sum_rule = !lo.no_sum_rule;
+  info.n_q = mesh->n_q;
+  info.unit = unit;
+  table = qv_phonon_table_dos (&info, dos, format == QV_CLI_LATTICE_JSON ? QV_PHONON_TABLE_JSON
+                               : format == QV_CLI_LATTICE_CSV ? QV_PHONON_TABLE_CSV : QV_PHONON_TABLE_TEXT);
+  status = qv_cli_emit ("dos", output, table, force);
+  if (status != QV_EXIT_OK || plot.path == NULL)
+    goto out;
+#ifdef QV_HAVE_RENDER
+  {
+    QvDosPlotOptions po;
+    g_autofree char *base = g_path_get_basename (argv[1]);
+    g_autofree char *title = g_strdup_printf ("%s \u2014 phonon density of states, %s, mesh %dx%dx%d",
+                                              base, qv_dos_method_name (dos->method), n[0], n[1], n[2]);
+    gboolean ok;
 
-  out = g_string_new (NULL);
-  if (format == QV_CLI_LATTICE_TEXT)
-    {
-      g_string_append_printf (out, "# quaver dos: %s, %" G_GSIZE_FORMAT " sites, mesh %dx%dx%d "
-                              "(Gamma-centred, %" G_GSIZE_FORMAT " q), method %s", argv[1],
-                              lattice->map->n_primitive, n[0], n[1], n[2], mesh->n_q,
-                              qv_dos_method_name (dos->method));
-      if (dos->method == QV_DOS_GAUSSIAN)
-        {
-          g_string_append (out, ", sigma ");
-          append_num (out, dos->sigma * per_cm1, "%.6g");
-          g_string_append_printf (out, " %s", qv_frequency_unit_name (unit));
-        }
-      g_string_append_printf (out, "\n# DOS: states per %s per primitive cell; integrates to 3n = %"
-                              G_GSIZE_FORMAT "; negative frequencies are imaginary\n",
-                              qv_frequency_unit_name (unit), 3 * lattice->map->n_primitive);
-      if (lo.born)
-        g_string_append_printf (out, "# Born charges from %s: the LO-TO term is added at every q "
-                                "except Gamma itself, which has no direction of approach (TO only "
-                                "at that one point, weight 1/N_q)\n", lo.born);
-      g_string_append_printf (out, "# frequency_%s total", qv_frequency_unit_name (unit));
-      for (gsize g = 0; g < dos->n_groups; g++)
-        g_string_append_printf (out, " %s", symbol (dos->z[g]));
-      g_string_append_c (out, '\n');
-    }
-  else
-    {
-      g_string_append_printf (out, "frequency_%s,total", qv_frequency_unit_name (unit));
-      for (gsize g = 0; g < dos->n_groups; g++)
-        g_string_append_printf (out, ",%s", symbol (dos->z[g]));
-      g_string_append_c (out, '\n');
-    }
-  for (gsize b = 0; b < dos->n_points; b++)
-    {
-      const char *sep = format == QV_CLI_LATTICE_CSV ? "," : " ";
-      append_num (out, dos->omega[b] * per_cm1, "%.6f");
-      g_string_append (out, sep);
-      append_num (out, dos->total[b] / per_cm1, "%.8e");
-      for (gsize g = 0; g < dos->n_groups; g++)
-        {
-          g_string_append (out, sep);
-          append_num (out, dos->partial[g * dos->n_points + b] / per_cm1, "%.8e");
-        }
-      g_string_append_c (out, '\n');
-    }
-  status = qv_cli_emit ("dos", output, out->str, force);
+    qv_dos_plot_options_init (&po);
+    po.width = plot.width;
+    po.height = plot.height;
+    po.title = title;
+    po.unit = unit;
+    if (plot.kind == QV_CLI_PLOT_SVG)
+      {
+        gsize length = 0;
+        g_autofree char *svg = qv_dos_plot_svg (dos, &po, &length, &error);
+        ok = svg && qv_cli_plot_write_svg (&plot, svg, length, force, &error);
+      }
+    else
+      {
+        g_autofree guint8 *rgba = qv_dos_plot_rgba (dos, &po, &error);
+        const char *text[] = { "Title", title, "Source", argv[1], NULL };
+        ok = rgba && qv_cli_plot_write_rgba (&plot, rgba, text, force, &error);
+      }
+    if (!ok)
+      goto fail;
+  }
+#endif
   goto out;
 
 fail:
@@ -256,5 +197,6 @@ fail:
 out:
   qv_cli_lattice_options_clear (&lo);
   g_free (mesh_arg); g_free (method_arg); g_free (unit_arg); g_free (format_arg); g_free (output);
+  qv_cli_plot_clear (&plot);
   return status;
 }

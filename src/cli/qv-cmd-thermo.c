@@ -7,15 +7,19 @@
 #include <string.h>
 #include "qv-cli.h"
 #include "qv-cli-lattice.h"
+#include "qv-cli-plot.h"
 #include "qv-config.h"
 #include "qv-element.h"
 #include "qv-error.h"
-#include "qv-json-writer.h"
 #include "qv-phonon-mesh.h"
+#include "qv-phonon-table.h"
 #include "qv-phonon-thermal.h"
 #include "qv-supercell.h"
 #include "qv-units.h"
 #include "qv-xyz.h"
+#ifdef QV_HAVE_RENDER
+#include "qv-thermal-plot.h"
+#endif
 
 static const char thermo_head[] =
   "Harmonic thermal properties of a crystal: the force constants of a\n"
@@ -54,22 +58,19 @@ static const char thermo_tail[] =
   "\n"
   "Output (--format): text (default), csv (no --sound), json (T, F, U, S,\n"
   "Cv, ZPE with their units, counts of modes left out, U tensors, sound).\n"
+  "\n";
+
+static const char thermo_examples[] =
   "\n"
   "Examples:\n"
   "  quaver thermo prim.xyz --supercell 4x4x4 -H fc.npy -u eV/A^2 --t-max 1000 --t-step 50\n"
   "  quaver thermo prim.xyz -S sc.xyz -H sc.hess -u eV/A^2 --adp --sound \"1 0 0; 1 1 1\" -f json\n"
+  "  quaver thermo prim.xyz --supercell 4x4x4 -H fc.npy -u eV/A^2 -f csv -o thermo.csv --plot thermo.svg\n"
   "\n"
   "Exit status: 0 success, 1 usage error, 2 bad input,\n"
   "3 output not written.\n"
   "Harmonic phonons are an approximation: validate them before relying on them.";
 
-
-static void
-append_num (GString *s, double v, const char *format)
-{
-  char buf[G_ASCII_DTOSTR_BUF_SIZE];
-  g_string_append (s, g_ascii_formatd (buf, sizeof buf, format, v + 0.0));
-}
 
 static const char *
 symbol (guint z)
@@ -182,7 +183,10 @@ qv_cmd_thermo (int argc, char **argv)
   g_autoptr(QvPhononMesh) mesh = NULL;
   g_autoptr(QvPhononSet) set = NULL;
   g_autoptr(QvThermal) th = NULL;
-  g_autoptr(GString) out = NULL;
+  g_autofree char *table = NULL;
+  g_autofree QvSoundTableEntry *sound_rows = NULL;
+  QvCliPlot plot = { NULL };
+  QvThermalTableInfo info;
   g_autofree double *t = NULL, *u = NULL, *dirs = NULL;
   g_autofree Sound *sound = NULL;
   gsize n_t, n_dirs = 0, n_sites, z_units;
@@ -190,7 +194,6 @@ qv_cmd_thermo (int argc, char **argv)
   QvCliLatticeFormat format = QV_CLI_LATTICE_TEXT;
   QvProgress progress = { qv_cli_progress, NULL };
   int status = QV_EXIT_OK;
-  double per_mol, kj = 0;
   GOptionEntry entries[] = {
     { "mesh", 'm', 0, G_OPTION_ARG_STRING, &mesh_arg, "Gamma-centred q mesh NxMxL (default 20x20x20)", "MESH" },
     { "t-min", 0, 0, G_OPTION_ARG_DOUBLE, &t_min, "Lowest temperature, K (default 0)", "T" },
@@ -202,6 +205,7 @@ qv_cmd_thermo (int argc, char **argv)
     { "format", 'f', 0, G_OPTION_ARG_STRING, &format_arg, "text (default), csv, json", "FORMAT" },
     { "output", 'o', 0, G_OPTION_ARG_FILENAME, &output, "Write to FILE instead of standard output", "FILE" },
     { "force", 0, 0, G_OPTION_ARG_NONE, &force, "Replace an existing output file", NULL },
+    QV_CLI_PLOT_ENTRIES (&plot),
     { NULL }
   };
 
@@ -210,7 +214,8 @@ qv_cmd_thermo (int argc, char **argv)
   g_set_prgname ("quaver thermo");
   context = g_option_context_new ("PRIMITIVE");
   g_option_context_set_summary (context, "Harmonic thermal properties of a crystal from a supercell Hessian.");
-  description = g_strconcat (thermo_head, qv_cli_lattice_help, thermo_tail, NULL);
+  description = g_strconcat (thermo_head, qv_cli_lattice_help, thermo_tail, qv_cli_plot_help,
+                             thermo_examples, NULL);
   g_option_context_set_description (context, description);
   if (!qv_cli_lattice_parse ("thermo", context, &lo, entries, &argc, &argv, &error))
     goto fail;
@@ -224,6 +229,8 @@ qv_cmd_thermo (int argc, char **argv)
   if (mesh_arg && !qv_phonon_mesh_parse (mesh_arg, n, &error))
     goto fail;
   if (format_arg && !qv_cli_lattice_format_parse (format_arg, &format, &error))
+    goto fail;
+  if (!qv_cli_plot_check (&plot, output, force, 900, 560, &error))
     goto fail;
   if (!(t_min >= 0 && t_max >= t_min && t_max <= 1e5 && t_step > 0 && (t_max - t_min) / t_step <= 100000))
     {
@@ -308,192 +315,69 @@ qv_cmd_thermo (int argc, char **argv)
     }
   z_units = qv_thermal_formula_units (n_sites, lattice->map->z);
   formula_text = formula (n_sites, lattice->map->z, z_units);
-  per_mol = qv_thermal_kj_per_mol (z_units);   /* eV/cell → kJ/mol */
-  kj = per_mol;
 
-  if (format == QV_CLI_LATTICE_JSON)
+  memset (&info, 0, sizeof info);
+  info.source.program = "quaver thermo " QV_VERSION;
+  info.source.primitive = argv[1];
+  info.source.hessian = lo.hessian;
+  info.source.born = lo.born;
+  info.source.n_sites = n_sites;
+  info.source.sum_rule = !lo.no_sum_rule;
+  memcpy (info.mesh, n, sizeof info.mesh);
+  info.n_q = mesh->n_q;
+  info.formula = formula_text;
+  info.formula_units = z_units;
+  info.site_z = lattice->map->z;
+  info.adp = u;
+  if (sound)
     {
-      QvJsonWriter *w = qv_json_writer_new ();
-      g_autofree double *col = g_new (double, n_t);
-      double mesh_d[3] = { n[0], n[1], n[2] };
-      char *doc;
-      struct { const char *key; const double *v; double f; } cols[] = {
-        { "F", th->free_energy, kj }, { "U", th->energy, kj }, { "S", th->entropy, kj * 1000 },
-        { "Cv", th->heat_capacity, kj * 1000 }, { "ZPE", th->zpe, kj },
-      };
-      qv_json_begin_object (w, NULL);
-      qv_json_string (w, "program", "quaver thermo " QV_VERSION);
-      qv_json_string (w, "primitive", argv[1]);
-      qv_json_string (w, "hessian", lo.hessian);
-      if (lo.born)
-        {
-          qv_json_string (w, "born", lo.born);
-          qv_json_string (w, "nonanalytic_at_gamma",
-                          "left out: no direction of approach (TO only at q = 0, weight 1/N_q)");
-        }
-      qv_json_numbers (w, "mesh", mesh_d, 3);
-      qv_json_string (w, "mesh_kind", "Gamma-centred, no symmetry reduction");
-      qv_json_int (w, "n_q", (gint64) mesh->n_q);
-      qv_json_int (w, "n_sites", (gint64) n_sites);
-      qv_json_string (w, "formula_unit", formula_text);
-      qv_json_int (w, "formula_units_per_cell", (gint64) z_units);
-      qv_json_bool (w, "sum_rule", !lo.no_sum_rule);
-      qv_json_int (w, "modes_summed", (gint64) th->n_modes);
-      qv_json_int (w, "gamma_acoustic_left_out", (gint64) th->n_gamma_skipped);
-      qv_json_int (w, "imaginary_left_out", (gint64) th->n_imaginary);
-      qv_json_int (w, "zero_left_out", (gint64) th->n_zero);
-      qv_json_number (w, "most_imaginary_cm-1", th->most_imaginary);
-      qv_json_begin_object (w, "units");
-      qv_json_string (w, "T", "K");
-      qv_json_string (w, "F", "kJ/mol (per mole of formula units)");
-      qv_json_string (w, "U", "kJ/mol (per mole of formula units)");
-      qv_json_string (w, "ZPE", "kJ/mol (per mole of formula units)");
-      qv_json_string (w, "S", "J/(K mol) (per mole of formula units)");
-      qv_json_string (w, "Cv", "J/(K mol) (per mole of formula units)");
-      qv_json_string (w, "per_cell", "eV for F, U, ZPE and eV/K for S, Cv, per primitive cell");
-      qv_json_string (w, "adp", "angstrom^2, Cartesian U_ij");
-      qv_json_string (w, "sound", "m/s");
-      qv_json_end_object (w);
-      qv_json_numbers (w, "T", t, n_t);
-      for (gsize c = 0; c < G_N_ELEMENTS (cols); c++)
-        {
-          for (gsize i = 0; i < n_t; i++)
-            col[i] = cols[c].v[i] * cols[c].f;
-          qv_json_numbers (w, cols[c].key, col, n_t);
-        }
-      qv_json_begin_object (w, "per_cell");
-      for (gsize c = 0; c < G_N_ELEMENTS (cols); c++)
-        qv_json_numbers (w, cols[c].key, cols[c].v, n_t);
-      qv_json_end_object (w);
-      if (u)
-        {
-          qv_json_begin_array (w, "adp");
-          for (gsize s = 0; s < n_sites; s++)
-            {
-              qv_json_begin_object (w, NULL);
-              qv_json_int (w, "site", (gint64) s + 1);
-              qv_json_string (w, "element", symbol (lattice->map->z[s]));
-              qv_json_begin_array (w, "U");
-              for (gsize i = 0; i < n_t; i++)
-                qv_json_numbers (w, NULL, u + (i * n_sites + s) * 9, 9);
-              qv_json_end_array (w);
-              for (gsize i = 0; i < n_t; i++)
-                {
-                  const double *m = u + (i * n_sites + s) * 9;
-                  col[i] = (m[0] + m[4] + m[8]) / 3;
-                }
-              qv_json_numbers (w, "U_iso", col, n_t);
-              qv_json_end_object (w);
-            }
-          qv_json_end_array (w);
-        }
-      if (sound)
-        {
-          qv_json_begin_array (w, "sound");
-          for (gsize d = 0; d < n_dirs; d++)
-            {
-              qv_json_begin_object (w, NULL);
-              qv_json_numbers (w, "direction", sound[d].given, 3);
-              qv_json_string (w, "direction_kind", cartesian ? "cartesian" : "fractional reciprocal");
-              if (sound[d].ok)
-                {
-                  qv_json_numbers (w, "cartesian_unit", sound[d].v.direction, 3);
-                  qv_json_numbers (w, "velocity", sound[d].v.velocity, 3);
-                  qv_json_numbers (w, "linearity", sound[d].v.linearity, 3);
-                  qv_json_numbers (w, "longitudinal_fraction", sound[d].v.longitudinal, 3);
-                }
-              else
-                qv_json_string (w, "error", sound[d].message);
-              qv_json_end_object (w);
-            }
-          qv_json_end_array (w);
-        }
-      qv_json_end_object (w);
-      doc = qv_json_writer_finish (w);
-      status = qv_cli_emit ("thermo", output, doc, force);
-      g_free (doc);
-      goto out;
-    }
-
-  out = g_string_new (NULL);
-  if (format == QV_CLI_LATTICE_TEXT)
-    {
-      g_string_append_printf (out, "# quaver thermo: %s, %" G_GSIZE_FORMAT " sites, formula unit %s "
-                              "(%" G_GSIZE_FORMAT " per cell), mesh %dx%dx%d (Gamma-centred, %"
-                              G_GSIZE_FORMAT " q)\n", argv[1], n_sites, formula_text, z_units,
-                              n[0], n[1], n[2], mesh->n_q);
-      g_string_append_printf (out, "# modes summed %" G_GSIZE_FORMAT "; left out: %" G_GSIZE_FORMAT
-                              " acoustic at Gamma, %" G_GSIZE_FORMAT " imaginary, %" G_GSIZE_FORMAT " zero\n",
-                              th->n_modes, th->n_gamma_skipped, th->n_imaginary, th->n_zero);
-      if (lo.born)
-        g_string_append_printf (out, "# Born charges from %s: the LO-TO term is added at every q "
-                                "except Gamma itself, which has no direction of approach (TO only "
-                                "at that one point, weight 1/N_q); --sound from the force constants "
-                                "alone\n", lo.born);
-      g_string_append (out, "# per mole of formula units: F, U, ZPE in kJ/mol; S, Cv in J/(K mol). "
-                            "Per primitive cell: F, U, ZPE in eV; S, Cv in meV/K\n");
+      sound_rows = g_new0 (QvSoundTableEntry, n_dirs);
       for (gsize d = 0; d < n_dirs; d++)
         {
-          g_string_append_printf (out, "# sound along (%g %g %g)%s: ", sound[d].given[0], sound[d].given[1],
-                                  sound[d].given[2], cartesian ? " Cartesian" : "");
-          if (!sound[d].ok)
-            g_string_append_printf (out, "none (%s)\n", sound[d].message);
-          else
-            {
-              for (int b = 0; b < 3; b++)
-                {
-                  append_num (out, sound[d].v.velocity[b], "%.1f");
-                  g_string_append (out, b < 2 ? " " : " m/s; longitudinal fraction");
-                }
-              for (int b = 0; b < 3; b++)
-                {
-                  g_string_append_c (out, ' ');
-                  append_num (out, sound[d].v.longitudinal[b], "%.3f");
-                }
-              g_string_append_c (out, '\n');
-            }
+          memcpy (sound_rows[d].given, sound[d].given, sizeof sound_rows[d].given);
+          sound_rows[d].ok = sound[d].ok;
+          sound_rows[d].message = sound[d].message;
+          sound_rows[d].v = sound[d].v;
         }
-      g_string_append (out, "# T_K F_kJ/mol U_kJ/mol S_J/(K.mol) Cv_J/(K.mol) ZPE_kJ/mol F_eV/cell "
-                            "U_eV/cell S_meV/(K.cell) Cv_meV/(K.cell)");
+      info.sound = sound_rows;
+      info.n_sound = n_dirs;
     }
-  else
-    g_string_append (out, "T_K,F_kJ/mol,U_kJ/mol,S_J/(K.mol),Cv_J/(K.mol),ZPE_kJ/mol,F_eV/cell,"
-                          "U_eV/cell,S_meV/(K.cell),Cv_meV/(K.cell)");
-  if (u)
-    for (gsize s = 0; s < n_sites; s++)
+  info.sound_cartesian = cartesian;
+  table = qv_phonon_table_thermal (&info, th, format == QV_CLI_LATTICE_JSON ? QV_PHONON_TABLE_JSON
+                                   : format == QV_CLI_LATTICE_CSV ? QV_PHONON_TABLE_CSV
+                                   : QV_PHONON_TABLE_TEXT);
+  status = qv_cli_emit ("thermo", output, table, force);
+  if (status != QV_EXIT_OK || plot.path == NULL)
+    goto out;
+#ifdef QV_HAVE_RENDER
+  {
+    QvThermalPlotOptions po;
+    g_autofree char *base = g_path_get_basename (argv[1]);
+    g_autofree char *title = g_strdup_printf ("%s \u2014 harmonic thermal properties per mole of %s, "
+                                              "mesh %dx%dx%d", base, formula_text, n[0], n[1], n[2]);
+    gboolean ok;
+
+    qv_thermal_plot_options_init (&po);
+    po.width = plot.width;
+    po.height = plot.height;
+    po.title = title;
+    po.formula_units = z_units;
+    if (plot.kind == QV_CLI_PLOT_SVG)
       {
-        static const char *names[] = { "U11", "U22", "U33", "U12", "U13", "U23" };
-        for (int c = 0; c < 6; c++)
-          g_string_append_printf (out, "%s%s_%s%" G_GSIZE_FORMAT "_A^2", format == QV_CLI_LATTICE_CSV ? "," : " ",
-                                  names[c], symbol (lattice->map->z[s]), s + 1);
+        gsize length = 0;
+        g_autofree char *svg = qv_thermal_plot_svg (th, &po, &length, &error);
+        ok = svg && qv_cli_plot_write_svg (&plot, svg, length, force, &error);
       }
-  g_string_append_c (out, '\n');
-  for (gsize i = 0; i < n_t; i++)
-    {
-      const char *sep = format == QV_CLI_LATTICE_CSV ? "," : " ";
-      double row[10] = { t[i], th->free_energy[i] * kj, th->energy[i] * kj, th->entropy[i] * kj * 1000,
-                         th->heat_capacity[i] * kj * 1000, th->zpe[i] * kj, th->free_energy[i],
-                         th->energy[i], th->entropy[i] * 1000, th->heat_capacity[i] * 1000 };
-      for (int c = 0; c < 10; c++)
-        {
-          if (c)
-            g_string_append (out, sep);
-          append_num (out, row[c], c == 0 ? "%.4f" : "%.8g");
-        }
-      if (u)
-        for (gsize s = 0; s < n_sites; s++)
-          {
-            const double *m = u + (i * n_sites + s) * 9;
-            const double v[6] = { m[0], m[4], m[8], m[1], m[2], m[5] };
-            for (int c = 0; c < 6; c++)
-              {
-                g_string_append (out, sep);
-                append_num (out, v[c], "%.8g");
-              }
-          }
-      g_string_append_c (out, '\n');
-    }
-  status = qv_cli_emit ("thermo", output, out->str, force);
+    else
+      {
+        g_autofree guint8 *rgba = qv_thermal_plot_rgba (th, &po, &error);
+        const char *text[] = { "Title", title, "Source", argv[1], NULL };
+        ok = rgba && qv_cli_plot_write_rgba (&plot, rgba, text, force, &error);
+      }
+    if (!ok)
+      goto fail;
+  }
+#endif
   goto out;
 
 fail:
@@ -504,5 +388,6 @@ out:
       g_free (sound[d].message);
   qv_cli_lattice_options_clear (&lo);
   g_free (mesh_arg); g_free (format_arg); g_free (output); g_free (sound_arg);
+  qv_cli_plot_clear (&plot);
   return status;
 }
