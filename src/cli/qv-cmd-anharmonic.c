@@ -43,7 +43,9 @@ static const char anharmonic_description[] =
   "on a grid). It is never extrapolated: the grid of the solver stays inside\n"
   "the scanned range. The Schroedinger equation in Q (unit mass) is solved\n"
   "with the sinc DVR of Colbert & Miller (J. Chem. Phys. 96, 1982, 1992) on\n"
-  "grids refined until the levels change by less than 1e-6 cm^-1.\n"
+  "grids refined until the levels change by less than 1e-6 cm^-1. The\n"
+  "wavefunctions vanish at the ends of the scan (the DVR of a finite\n"
+  "interval): a level that reaches them is a level of that box, and flagged.\n"
   "\n"
   "Reported: the levels E_0..E_n (--levels, default 6) above the minimum of\n"
   "V, the anharmonic fundamental E_1-E_0 and first overtone E_2-E_0, the\n"
@@ -489,11 +491,11 @@ collect_warnings (Report *r)
     {
       double rms, max;
       qv_scan_potential_residual (r->potential, &rms, &max);
-      if (r->levels->n_levels > 1 && max > 0.01 * cm (r->levels->fundamental) * qv_scan_ev_per_wavenumber ()
-          && isfinite (r->levels->fundamental))
+      const double fundamental = r->dim == 1 ? l->fundamental : l->fundamentals[0];
+      if (isfinite (fundamental) && max > 0.01 * fundamental)
         g_ptr_array_add (r->warnings, g_strdup_printf (
-          "the polynomial misses a point by %.3g cm^-1, over 1%% of the fundamental: try another "
-          "--degree or --spline", cm (max)));
+          "the polynomial misses a point by %.3g cm^-1, over 1%% of the %sfundamental: try another "
+          "--degree or --spline", cm (max), r->dim == 1 ? "" : "lower "));
     }
   g_ptr_array_add (r->notes, g_strdup (
     "a rectilinear normal coordinate describes a torsion (or another large curvilinear motion) "

@@ -689,7 +689,7 @@ qv_scan_potential_solve (const QvScanPotential *p, gsize n_levels, double tolera
     }
   else
     {
-      double best = G_MAXDOUBLE, x[2];
+      double best = G_MAXDOUBLE, x[2] = { 0.0, 0.0 };
       l->minima = g_array_new (FALSE, FALSE, sizeof (QvScanMinimum));
       for (gsize j = 0; j < SAMPLES_2D; j++)
         for (gsize i = 0; i < SAMPLES_2D; i++)
