@@ -1344,6 +1344,14 @@ npy_parse_header (const char *data, gsize length, const char *name, NpyHeader *h
         goto malformed;
       p = npy_skip_space (p + 1, end);
 
+      /* numpy writes each key once; a second one would also leak the first */
+      if ((strcmp (key, "descr") == 0 && have_descr)
+          || (strcmp (key, "fortran_order") == 0 && have_order)
+          || (strcmp (key, "shape") == 0 && have_shape))
+        {
+          qv_io_error (error, name, 0, 0, "the .npy header gives '%s' twice", key);
+          return FALSE;
+        }
       if (strcmp (key, "descr") == 0)
         {
           if (p < end && *p == '[')
