@@ -1106,7 +1106,8 @@ run_jobs (Job *jobs, int n_jobs, const char *data, gsize length, const char *nam
       hessian = new_matrix (dim, name, error);
       if (hessian == NULL)
         goto out;
-      memcpy (hessian->data, out0, count0 * sizeof (double));
+      if (count0 > 0)   /* out0 is NULL when the first part held no number */
+        memcpy (hessian->data, out0, count0 * sizeof (double));
     }
   if (n_jobs == 2)
     memcpy (hessian->data + count0, jobs[1].chunk.out,
