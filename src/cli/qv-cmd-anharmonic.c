@@ -464,8 +464,8 @@ collect_warnings (Report *r)
       strchr (above->str, ',') ? "" : "s"));
   if (edge->len)
     g_ptr_array_add (r->warnings, g_strdup_printf (
-      "the wavefunction of level%s %s has weight near the edge of the scanned range (over %g "
-      "within %g%% of an end): the walls of the scan, not the potential, shape %s",
+      "the wavefunction of level%s %s has weight near the ends of the scanned range (over %g "
+      "within %g%% of an end): the ends confine %s and push the energy up; extend the scan",
       strchr (edge->str, ',') ? "s" : "", edge->str, QV_SCAN_EDGE_WEIGHT_LIMIT,
       100 * QV_SCAN_EDGE_FRACTION, strchr (edge->str, ',') ? "them" : "it"));
   if (!l->minimum_inside)
@@ -483,8 +483,8 @@ collect_warnings (Report *r)
         }
       g_ptr_array_add (r->warnings, g_strdup_printf (
         "a multiple well: %u minima, at %s; barrier %.2f cm^-1 between the two lowest; "
-        "tunnelling splitting E_1 - E_0 = %.6g cm^-1%s", l->minima->len, s->str, cm (l->barrier),
-        cm (l->splitting),
+        "tunnelling splitting E_1 - E_0 = %.6g cm^-1%s; omega_e and omega_e x_e (a single-well "
+        "formula) do not describe it", l->minima->len, s->str, cm (l->barrier), cm (l->splitting),
         l->levels[1].energy > l->barrier ? " (E_1 is above the barrier: not a tunnelling pair)" : ""));
     }
   if (qv_scan_potential_fit (r->potential) == QV_SCAN_FIT_POLYNOMIAL)
