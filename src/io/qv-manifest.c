@@ -285,6 +285,15 @@ write_fields (QvJsonWriter *w, const char *key, const GPtrArray *fields)
   qv_json_end_object (w);
 }
 
+/* A member the reader takes as optional: left out when NULL, since the
+ * reader refuses null where it expects a string. */
+static void
+optional_string (QvJsonWriter *w, const char *key, const char *value)
+{
+  if (value != NULL)
+    qv_json_string (w, key, value);
+}
+
 char *
 qv_manifest_to_json (const QvManifest *m)
 {
@@ -293,7 +302,7 @@ qv_manifest_to_json (const QvManifest *m)
   qv_json_begin_object (w, NULL);
   qv_json_string (w, "format", QV_MANIFEST_FORMAT);
   qv_json_int (w, "version", QV_MANIFEST_VERSION);
-  qv_json_string (w, "generator", m->generator);
+  optional_string (w, "generator", m->generator);
   qv_json_string (w, "command", m->command);
   qv_json_begin_array (w, "arguments");
   for (guint i = 0; i < m->arguments->len; i++)
@@ -306,7 +315,7 @@ qv_manifest_to_json (const QvManifest *m)
       const QvManifestInput *in = m->inputs->pdata[i];
       qv_json_begin_object (w, NULL);
       qv_json_string (w, "role", in->role);
-      qv_json_string (w, "path", in->path);
+      optional_string (w, "path", in->path);
       qv_json_string (w, "sha256", in->sha256);
       qv_json_end_object (w);
     }
@@ -334,7 +343,7 @@ qv_manifest_to_json (const QvManifest *m)
       const QvManifestFile *f = m->files->pdata[i];
       qv_json_begin_object (w, NULL);
       qv_json_string (w, "name", f->name);
-      qv_json_string (w, "format", f->format);
+      optional_string (w, "format", f->format);
       qv_json_string (w, "sha256", f->sha256);
       qv_json_begin_array (w, "frames");
       for (guint j = 0; j < f->frames->len; j++)
