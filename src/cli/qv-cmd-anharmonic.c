@@ -188,29 +188,31 @@ collect_points (const QvManifest *m, const char *path, guint *dim, guint modes[2
 
 /* Energies from energy= of each structure file, and the geometry check: the
  * positions must lie on r = r0 + Σ_d Q_d c_d (the scan's line or plane)
- * within @tolerance Å. */
+ * within @tolerance Å. One file's frames are held at a time; the positions
+ * of all structures are kept (np·3N doubles) for the fit. */
 static gboolean
 read_xyz_energies (GArray *points, guint dim, const char *dir, double factor, gboolean unit_given,
                    const QvManifest *m, double tolerance, GError **error)
 {
-  g_autoptr(GHashTable) cache = g_hash_table_new_full (g_str_hash, g_str_equal, g_free,
-                                                       (GDestroyNotify) g_ptr_array_unref);
+  g_autoptr(GPtrArray) frames = NULL;
+  g_autofree char *frames_path = NULL;
   g_autofree double *x = NULL;
-  const QvStructure *first = NULL;
+  g_autofree guint *z = NULL;
   const char *first_path = NULL;
   gsize n_atoms = 0;
-  const gsize np = points->len;
+  const gsize np = points->len, cols = dim + 1;
 
   for (guint i = 0; i < np; i++)
     {
       Point *p = &g_array_index (points, Point, i);
       g_autofree char *path = g_build_filename (dir, p->file, NULL);
-      GPtrArray *frames = g_hash_table_lookup (cache, path);
       const QvStructure *s;
       const gsize comment_line = (gsize) p->frame * (n_atoms + 2) + 2;
 
-      if (frames == NULL)
+      if (frames_path == NULL || strcmp (frames_path, path) != 0)
         {
+          g_clear_pointer (&frames, g_ptr_array_unref);
+          g_clear_pointer (&frames_path, g_free);
           if (!g_file_test (path, G_FILE_TEST_EXISTS))
             {
               qv_io_error (error, path, 0, 0, "missing: structure %u of the manifest (%s); give "
@@ -224,15 +226,13 @@ read_xyz_energies (GArray *points, guint dim, const char *dir, double factor, gb
             {
               qv_io_error (error, path, 0, 0, "%u frame%s, the manifest lists %u", frames->len,
                            frames->len == 1 ? "" : "s", p->n_frames);
-              g_ptr_array_unref (frames);
               return FALSE;
             }
-          g_hash_table_insert (cache, g_strdup (path), frames);
+          frames_path = g_strdup (path);
         }
       s = g_ptr_array_index (frames, p->frame);
-      if (first == NULL)
+      if (z == NULL)
         {
-          first = s;
           first_path = p->file;
           n_atoms = s->n_atoms;
           if (m->n_atoms && n_atoms != m->n_atoms)
@@ -241,7 +241,17 @@ read_xyz_energies (GArray *points, guint dim, const char *dir, double factor, gb
                            "has %" G_GSIZE_FORMAT, n_atoms, m->n_atoms);
               return FALSE;
             }
-          x = g_new (double, (gsize) np * 3 * n_atoms);
+          z = g_new (guint, n_atoms);
+          for (gsize a = 0; a < n_atoms; a++)
+            z[a] = s->atoms[a].z;
+          if (n_atoms > G_MAXSIZE / sizeof (double) / 3 / np
+              || (x = g_try_malloc (sizeof (double) * np * 3 * n_atoms)) == NULL)
+            {
+              g_set_error (error, QV_ERROR, QV_ERROR_LIMIT, "%" G_GSIZE_FORMAT " structures of %"
+                           G_GSIZE_FORMAT " atoms are too many to check their geometry in memory; "
+                           "give the energies with --energies FILE instead", np, n_atoms);
+              return FALSE;
+            }
         }
       if (s->n_atoms != n_atoms)
         {
@@ -251,11 +261,11 @@ read_xyz_energies (GArray *points, guint dim, const char *dir, double factor, gb
           return FALSE;
         }
       for (gsize a = 0; a < n_atoms; a++)
-        if (s->atoms[a].z != first->atoms[a].z)
+        if (s->atoms[a].z != z[a])
           {
             qv_io_error (error, path, comment_line + a + 1, 0, "atom %" G_GSIZE_FORMAT " is element "
                          "%u, in %s it is %u (atoms in another order?)", a + 1, s->atoms[a].z,
-                         first_path, first->atoms[a].z);
+                         first_path, z[a]);
             return FALSE;
           }
       if (!s->has_energy)
@@ -276,51 +286,63 @@ read_xyz_energies (GArray *points, guint dim, const char *dir, double factor, gb
           x[(gsize) i * 3 * n_atoms + 3 * a + c] = s->atoms[a].position[c];
     }
 
-  /* positions on r = c0 + Σ Q_d c_d: least squares over the structures */
+  /* positions on r = c0 + Σ Q_d c_d: least squares through the normal
+   * equations (AᵀA)C = AᵀX, A = [1, Q_1, Q_2] with Q centred, which is
+   * (dim+1)² and well conditioned */
   {
-    const gsize cols = dim + 1, rhs = 3 * n_atoms;
-    g_autofree double *a = g_new (double, np * cols);
-    g_autofree double *b = g_new (double, np * rhs);
-    double worst = -1;
+    const gsize rhs = 3 * n_atoms;
+    g_autofree double *atx = g_new0 (double, cols * rhs);
+    double ata[9] = { 0 }, mean[2] = { 0, 0 }, worst = -1;
     guint worst_i = 0;
     gsize worst_a = 0;
     lapack_int info;
 
     for (guint i = 0; i < np; i++)
+      for (guint d = 0; d < dim; d++)
+        mean[d] += g_array_index (points, Point, i).Q[d] / (double) np;
+    for (guint i = 0; i < np; i++)
       {
         const Point *p = &g_array_index (points, Point, i);
-        a[i] = 1.0;
+        double row[3] = { 1.0, 0, 0 };
         for (guint d = 0; d < dim; d++)
-          a[i + np * (d + 1)] = p->Q[d];
-        for (gsize k = 0; k < rhs; k++)
-          b[i + np * k] = x[(gsize) i * rhs + k];
+          row[d + 1] = p->Q[d] - mean[d];
+        for (gsize r = 0; r < cols; r++)
+          {
+            for (gsize c = 0; c < cols; c++)
+              ata[r + cols * c] += row[r] * row[c];
+            for (gsize k = 0; k < rhs; k++)
+              atx[r + cols * k] += row[r] * x[(gsize) i * rhs + k];
+          }
       }
-    {
-      g_autofree double *a_copy = g_memdup2 (a, sizeof (double) * np * cols);
-      info = LAPACKE_dgels (LAPACK_COL_MAJOR, 'N', (lapack_int) np, (lapack_int) cols,
-                            (lapack_int) rhs, a_copy, (lapack_int) np, b, (lapack_int) np);
-    }
+    info = LAPACKE_dposv (LAPACK_COL_MAJOR, 'L', (lapack_int) cols, (lapack_int) rhs, ata,
+                          (lapack_int) cols, atx, (lapack_int) cols);
     if (info != 0)
       {
-        qv_io_error (error, dir, 0, 0, "the structures do not span the scan (least squares INFO = %d)",
-                     (int) info);
+        qv_io_error (error, dir, 0, 0, "the structures do not span the scan: their Q are not "
+                     "independent (least squares INFO = %d)", (int) info);
         return FALSE;
       }
     for (guint i = 0; i < np; i++)
-      for (gsize at = 0; at < n_atoms; at++)
-        {
-          double d2 = 0.0;
-          for (int c = 0; c < 3; c++)
-            {
-              const gsize k = 3 * at + c;
-              double fit = b[0 + np * k];
-              for (guint d = 0; d < dim; d++)
-                fit += a[i + np * (d + 1)] * b[(d + 1) + np * k];
-              d2 += (x[(gsize) i * rhs + k] - fit) * (x[(gsize) i * rhs + k] - fit);
-            }
-          if (sqrt (d2) > worst)
-            worst = sqrt (d2), worst_i = i, worst_a = at;
-        }
+      {
+        const Point *p = &g_array_index (points, Point, i);
+        double row[3] = { 1.0, 0, 0 };
+        for (guint d = 0; d < dim; d++)
+          row[d + 1] = p->Q[d] - mean[d];
+        for (gsize at = 0; at < n_atoms; at++)
+          {
+            double d2 = 0.0;
+            for (int c = 0; c < 3; c++)
+              {
+                const gsize k = 3 * at + c;
+                double fit = 0.0;
+                for (gsize r = 0; r < cols; r++)
+                  fit += row[r] * atx[r + cols * k];
+                d2 += (x[(gsize) i * rhs + k] - fit) * (x[(gsize) i * rhs + k] - fit);
+              }
+            if (sqrt (d2) > worst)
+              worst = sqrt (d2), worst_i = i, worst_a = at;
+          }
+      }
     if (worst > tolerance)
       {
         const Point *p = &g_array_index (points, Point, worst_i);
