@@ -314,6 +314,34 @@ with tempfile.TemporaryDirectory(prefix="qv-anharmonic-") as tmp:
     text[1] = re.sub(r" energy=\S+", "", text[1])
     open(path, "w").write("\n".join(text))
     expect_error([broken], 2, r"%s:2: no energy=" % re.escape(pts[2][0]), "no energy=")
+    fresh()
+    path = os.path.join(broken, pts[6][0])
+    text = open(path).read().split("\n")
+    text[2], text[3] = text[3], text[2]          # atoms 1 and 2 swapped (C and O)
+    open(path, "w").write("\n".join(text))
+    expect_error([broken], 2, r"%s:3: atom 1 is element 8, in %s it is 6" % (re.escape(pts[6][0]),
+                 re.escape(pts[0][0])), "atoms in another order")
+
+    # one multi-frame file: names FILE@K, the same levels, the line of a bad frame
+    single, man_1 = displace(tmp, "single", "--mode", "1", "--scan", "41", "--q", "9",
+                             "--single-file")
+    fname = man_1["files"][0]["name"]
+    frames = man_1["files"][0]["frames"]
+    with open(os.path.join(tmp, "single.txt"), "w") as f:
+        for fr in frames:
+            f.write("%s@%d %.15g\n" % (fname, fr["index"], morse(fr["modes"][0]["Q"])))
+    p = anharmonic([single, "--energies", os.path.join(tmp, "single.txt"), "--energy-units", "eV",
+                    "--spline", "-f", "json"])
+    chk.close([lv["energy"] for lv in json.loads(p.stdout_text)["levels"]], ref_spline,
+              "multi-frame scan, FILE@K names: the same levels", atol=2e-3)
+    text = open(os.path.join(single, fname)).read().split("\n")
+    n_at = int(text[0])
+    for k, fr in enumerate(frames):
+        if k != 12:
+            text[k * (n_at + 2) + 1] += " energy=%.15g" % morse(fr["modes"][0]["Q"])
+    open(os.path.join(single, fname), "w").write("\n".join(text))
+    expect_error([single], 2, r"%s:%d: no energy= on the comment line of this frame"
+                 % (re.escape(fname), 12 * (n_at + 2) + 2), "multi-frame: the frame without energy=")
     expect_error([os.path.join(tmp, "nowhere")], 2, r"nowhere", "no manifest")
     expect_error([scan, "--degree", "1"], 1, r"--degree", "degree too low")
     expect_error([scan, "--degree", "4", "--spline"], 1, r"not both", "degree and spline")
