@@ -14,6 +14,7 @@ struct _QvExportSectionStencil
   GtkWidget *box;
   GtkAdjustment *step_adjustment;
   GtkEditable *atoms_entry;
+  GtkCheckButton *symmetric_check;
   GtkLabel *message_label;
   GtkLabel *files_label;
   GtkLabel *detail_label;
@@ -28,6 +29,7 @@ G_DEFINE_FINAL_TYPE (QvExportSectionStencil, qv_export_section_stencil, GTK_TYPE
 
 typedef struct {
   double step;
+  gboolean symmetric;          /* only the symmetry-distinct displacements */
   QvExportFormat format;
   char atoms[];                /* the selection as typed */
 } StencilOptions;
@@ -40,6 +42,8 @@ read_options (QvExportSectionStencil *self)
   StencilOptions *o = g_malloc0 (sizeof *o + length + 1);
 
   o->step = gtk_adjustment_get_value (self->step_adjustment);
+  o->symmetric = gtk_widget_get_visible (GTK_WIDGET (self->symmetric_check))
+                 && gtk_check_button_get_active (self->symmetric_check);
   qv_export_format_init (&o->format);
   memcpy (o->atoms, text, length);
   return o;
@@ -55,6 +59,9 @@ plan_stencil (const QvExportInputs *inputs, gconstpointer options, QvManifest *m
   gsize n = 0;
   const char *text = o->atoms[0] ? o->atoms : "all";
 
+  if (o->symmetric)
+    return qv_export_new_symmetric_stencil (inputs->structure, o->step, 0, &o->format, manifest,
+                                            error);
   if (!qv_stencil_parse_atoms (text, n_atoms, &atoms, &n, error)
       || (stencil = qv_stencil_new (n_atoms, o->step, atoms, n, error)) == NULL)
     {
@@ -82,6 +89,14 @@ refresh (QvExportSectionStencil *self)
       qv_export_writer_set_ready (self->writer, FALSE);
       return;
     }
+  {
+    /* a periodic structure may use its space group */
+    const QvStructure *s = qv_document_get_structure (doc);
+    const gboolean periodic = s->has_cell && s->pbc[0] && s->pbc[1] && s->pbc[2];
+    gtk_widget_set_visible (GTK_WIDGET (self->symmetric_check), periodic);
+    gtk_widget_set_sensitive (GTK_WIDGET (self->atoms_entry),
+                              !(periodic && gtk_check_button_get_active (self->symmetric_check)));
+  }
   o = read_options (self);
   {
     const QvExportInputs borrowed = { (QvStructure *) qv_document_get_structure (doc), NULL, NULL };
@@ -95,6 +110,21 @@ refresh (QvExportSectionStencil *self)
     }
   qv_export_pane_set_message (self->message_label, NULL, FALSE);
   self->n_files = qv_export_n_files (plan);
+  if (o->symmetric)
+    {
+      const gsize n_atoms = qv_document_get_structure (doc)->n_atoms;
+      g_autofree char *files = qv_export_pane_files_text (plan);
+      /* TRANSLATORS: "12 symmetry-distinct displacements of ±0.0100 Å instead of 324, and the reference" */
+      g_autofree char *detail = g_strdup_printf (_("%zu symmetry-distinct displacements of ±%.4f Å instead of %zu, and the reference"),
+                                                 self->n_files - 1, o->step, 6 * n_atoms);
+      gtk_label_set_label (self->files_label, files);
+      gtk_label_set_label (self->detail_label, detail);
+      qv_export_pane_set_message (self->notes_label,
+                                  _("quaver collect rebuilds the whole Hessian from these and the space group, then symmetrises it."),
+                                  FALSE);
+      qv_export_writer_set_ready (self->writer, TRUE);
+      return;
+    }
   {
     const QvStencil *stencil = qv_export_stencil (plan);
     g_autofree char *files = qv_export_pane_files_text (plan);
@@ -143,6 +173,12 @@ qv_export_section_stencil_set_context (QvExportSectionStencil *self, const QvExp
 }
 
 void
+qv_export_section_stencil_set_symmetric (QvExportSectionStencil *self, gboolean symmetric)
+{
+  gtk_check_button_set_active (self->symmetric_check, symmetric);
+}
+
+void
 qv_export_section_stencil_set_atoms (QvExportSectionStencil *self, const char *text)
 {
   gtk_editable_set_text (self->atoms_entry, text);
@@ -178,6 +214,7 @@ qv_export_section_stencil_class_init (QvExportSectionStencilClass *klass)
   gtk_widget_class_set_template_from_resource (widget_class,
                                                "/org/quaverlab/Quaver/gui/qv-export-section-stencil.ui");
   gtk_widget_class_bind_template_child (widget_class, QvExportSectionStencil, box);
+  gtk_widget_class_bind_template_child (widget_class, QvExportSectionStencil, symmetric_check);
   gtk_widget_class_bind_template_child (widget_class, QvExportSectionStencil, step_adjustment);
   gtk_widget_class_bind_template_child (widget_class, QvExportSectionStencil, atoms_entry);
   gtk_widget_class_bind_template_child (widget_class, QvExportSectionStencil, message_label);
@@ -196,5 +233,6 @@ qv_export_section_stencil_init (QvExportSectionStencil *self)
   qv_export_writer_set_prepare (self->writer, prepare, self);
   g_signal_connect_object (self->step_adjustment, "value-changed", G_CALLBACK (refresh), self, G_CONNECT_SWAPPED);
   g_signal_connect_object (self->atoms_entry, "changed", G_CALLBACK (refresh), self, G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->symmetric_check, "toggled", G_CALLBACK (refresh), self, G_CONNECT_SWAPPED);
   refresh (self);
 }

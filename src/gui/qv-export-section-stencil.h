@@ -14,6 +14,8 @@ G_DECLARE_FINAL_TYPE (QvExportSectionStencil, qv_export_section_stencil, QV, EXP
 
 void qv_export_section_stencil_set_context (QvExportSectionStencil *self, const QvExportContext *context);
 /* The atom selection as typed ("all", "1,3-5"). */
+/* Only the symmetry-distinct displacements (offered for a periodic structure). */
+void qv_export_section_stencil_set_symmetric (QvExportSectionStencil *self, gboolean symmetric);
 void qv_export_section_stencil_set_atoms (QvExportSectionStencil *self, const char *text);
 gsize qv_export_section_stencil_get_n_files (QvExportSectionStencil *self);
 const char *qv_export_section_stencil_get_preview (QvExportSectionStencil *self);

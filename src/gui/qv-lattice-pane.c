@@ -5,6 +5,10 @@
 #include <math.h>
 #include <string.h>
 #include "qv-dispersion-plot.h"
+#include "qv-dos-plot.h"
+#include "qv-element.h"
+#include "qv-phonon-table.h"
+#include "qv-thermal-plot.h"
 #include "qv-error.h"
 #include "qv-lattice-pane.h"
 #include "qv-output.h"
@@ -30,6 +34,8 @@ struct _QvLatticePane
   const QvDocumentLattice *lattice;   /* the document's */
   int selected_q, selected_branch;
   int hover_q, hover_branch;
+  gboolean dos_hover, thermal_hover;
+  double dos_hover_frequency, thermal_hover_t;
   QvFrequencyUnit unit;
 };
 
@@ -45,6 +51,9 @@ has_bands (QvLatticePane *self)
 {
   return self->lattice && self->lattice->bands;
 }
+
+static char *describe_dos (QvLatticePane *self, double x, double y);
+static char *describe_thermal (QvLatticePane *self, double x, double y);
 
 /* ---- the dispersion ---- */
 
@@ -126,8 +135,13 @@ describe (QvLatticePane *self, gsize k, gsize b)
 char *
 qv_lattice_pane_describe_point (QvLatticePane *self, double x, double y)
 {
+  const char *page = gtk_stack_get_visible_child_name (self->plot_stack);
   gsize k, b;
 
+  if (g_strcmp0 (page, "dos") == 0)
+    return describe_dos (self, x, y);
+  if (g_strcmp0 (page, "thermal") == 0)
+    return describe_thermal (self, x, y);
   if (!hit (self, x, y, &k, &b))
     return g_strdup ("");
   return describe (self, k, b);
@@ -142,7 +156,7 @@ update_selection_label (QvLatticePane *self)
     text = describe (self, (gsize) self->selected_q, (gsize) self->selected_branch);
   gtk_label_set_label (self->selection_label, "");
   gtk_widget_set_tooltip_text (GTK_WIDGET (self->selection_label), text);
-  gtk_label_set_label (self->readout_label, text ? text : _("Click a branch to show its lattice mode"));
+  gtk_label_set_label (self->readout_label, text ? text : _("Click a branch to show its lattice mode; arrow keys step along the path and between branches"));
 }
 
 static void
@@ -248,6 +262,154 @@ key_pressed (GtkEventControllerKey *controller, guint keyval, guint keycode,
     }
   activate (self, k, b);
   return TRUE;
+}
+
+/* ---- the density of states and the thermal properties ---- */
+
+static void
+dos_options (QvLatticePane *self, int width, int height, QvDosPlotOptions *o)
+{
+  qv_dos_plot_options_init (o);
+  o->width = MAX (width, 1);
+  o->height = MAX (height, 1);
+  o->unit = self->unit;
+  o->has_hover = self->dos_hover;
+  o->hover_frequency = self->dos_hover_frequency;
+}
+
+static void
+thermal_options (QvLatticePane *self, int width, int height, QvThermalPlotOptions *o)
+{
+  qv_thermal_plot_options_init (o);
+  o->width = MAX (width, 1);
+  o->height = MAX (height, 1);
+  o->formula_units = self->lattice ? self->lattice->formula_units : 1;
+  o->has_hover = self->thermal_hover;
+  o->hover_t = self->thermal_hover_t;
+}
+
+static void
+draw_dos (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer data)
+{
+  QvLatticePane *self = data;
+  QvDosPlotOptions o;
+
+  if (self->lattice == NULL || self->lattice->dos == NULL)
+    return;
+  dos_options (self, width, height, &o);
+  qv_dos_plot_draw (cr, self->lattice->dos, &o);
+}
+
+static void
+draw_thermal (GtkDrawingArea *area, cairo_t *cr, int width, int height, gpointer data)
+{
+  QvLatticePane *self = data;
+  QvThermalPlotOptions o;
+
+  if (self->lattice == NULL || self->lattice->thermal == NULL)
+    return;
+  thermal_options (self, width, height, &o);
+  qv_thermal_plot_draw (cr, self->lattice->thermal, &o);
+}
+
+/* "312.4 cm⁻¹ · DOS 0.0213 per cm⁻¹ (Na 0.0051, Cl 0.0162)" */
+static char *
+describe_dos (QvLatticePane *self, double x, double y)
+{
+  const QvPhononDos *dos = self->lattice ? self->lattice->dos : NULL;
+  QvDosPlotOptions o;
+  double f, total;
+  g_autofree double *partial = NULL;
+  g_autoptr(GString) s = NULL;
+  double per;
+
+  if (dos == NULL)
+    return g_strdup ("");
+  dos_options (self, gtk_widget_get_width (GTK_WIDGET (self->dos_area)),
+               gtk_widget_get_height (GTK_WIDGET (self->dos_area)), &o);
+  partial = g_new0 (double, MAX (dos->n_groups, 1));
+  if (!qv_dos_plot_readout (dos, &o, x, y, &f, &total, partial))
+    return g_strdup ("");
+  /* states per unit of the axis: per cm⁻¹ times cm⁻¹ per unit */
+  per = 1.0 / qv_frequency_from_wavenumber (1.0, self->unit);
+  s = g_string_new (NULL);
+  /* TRANSLATORS: DOS read-out: frequency, unit, DOS, unit */
+  g_string_append_printf (s, _("%.2f %s · DOS %.4g per %s"),
+                          qv_frequency_from_wavenumber (f, self->unit), unit_text (self->unit),
+                          total * per, unit_text (self->unit));
+  if (dos->n_groups > 1)
+    {
+      g_string_append (s, " (");
+      for (gsize g = 0; g < dos->n_groups; g++)
+        g_string_append_printf (s, "%s%s %.4g", g ? ", " : "", qv_element_from_z (dos->z[g])->symbol,
+                                partial[g] * per);
+      g_string_append_c (s, ')');
+    }
+  return g_string_free (g_steal_pointer (&s), FALSE);
+}
+
+/* "300 K · F −3.21 kJ/mol · U 9.87 kJ/mol · S 43.7 J/(K mol) · Cv 48.9 J/(K mol)" */
+static char *
+describe_thermal (QvLatticePane *self, double x, double y)
+{
+  const QvThermal *th = self->lattice ? self->lattice->thermal : NULL;
+  QvThermalPlotOptions o;
+  QvThermalPanel panel;
+  QvThermalReadout r;
+
+  if (th == NULL)
+    return g_strdup ("");
+  thermal_options (self, gtk_widget_get_width (GTK_WIDGET (self->thermal_area)),
+                   gtk_widget_get_height (GTK_WIDGET (self->thermal_area)), &o);
+  if (!qv_thermal_plot_readout (th, &o, x, y, &panel, &r))
+    return g_strdup ("");
+  /* TRANSLATORS: thermal read-out per mole of formula units */
+  return g_strdup_printf (_("%.0f K · F %.3f · U %.3f kJ/mol · S %.3f · Cv %.3f J/(K mol)"), r.t,
+                          r.free_energy, r.energy, r.entropy, r.heat_capacity);
+}
+
+static void
+plot_motion (GtkEventControllerMotion *controller, double x, double y, gpointer data)
+{
+  QvLatticePane *self = data;
+  GtkWidget *area = gtk_event_controller_get_widget (GTK_EVENT_CONTROLLER (controller));
+  g_autofree char *text = NULL;
+
+  if (area == GTK_WIDGET (self->dos_area))
+    {
+      QvDosPlotOptions o;
+      double f, total;
+      text = describe_dos (self, x, y);
+      dos_options (self, gtk_widget_get_width (area), gtk_widget_get_height (area), &o);
+      o.has_hover = FALSE;
+      self->dos_hover = self->lattice && self->lattice->dos
+                        && qv_dos_plot_readout (self->lattice->dos, &o, x, y, &f, &total, NULL);
+      self->dos_hover_frequency = self->dos_hover ? f : 0;
+    }
+  else
+    {
+      QvThermalPlotOptions o;
+      QvThermalPanel panel;
+      QvThermalReadout r;
+      text = describe_thermal (self, x, y);
+      thermal_options (self, gtk_widget_get_width (area), gtk_widget_get_height (area), &o);
+      o.has_hover = FALSE;
+      self->thermal_hover = self->lattice && self->lattice->thermal
+                            && qv_thermal_plot_readout (self->lattice->thermal, &o, x, y, &panel, &r);
+      self->thermal_hover_t = self->thermal_hover ? r.t : 0;
+    }
+  gtk_label_set_label (self->readout_label, text[0] ? text : " ");
+  gtk_widget_queue_draw (area);
+}
+
+static void
+plot_leave (GtkEventControllerMotion *controller, gpointer data)
+{
+  QvLatticePane *self = data;
+
+  self->dos_hover = self->thermal_hover = FALSE;
+  update_selection_label (self);
+  gtk_widget_queue_draw (gtk_event_controller_get_widget (GTK_EVENT_CONTROLLER (controller)));
 }
 
 /* ---- the pane ---- */
@@ -360,54 +522,169 @@ qv_lattice_pane_get_dispersion_area (QvLatticePane *self)
 
 /* ---- saving ---- */
 
+static void
+fill_source (QvLatticePane *self, QvPhononSource *src)
+{
+  const QvDocumentSource *ds = qv_document_get_source (self->document);
+  const QvCrystal *c = self->lattice->crystal;
+
+  memset (src, 0, sizeof *src);
+  src->program = "quaver " QV_VERSION;
+  src->primitive = qv_document_get_path (self->document);
+  src->hessian = ds && ds->bundle_hessian ? ds->bundle_hessian
+                 : ds && ds->hessian ? ds->hessian : qv_document_get_path (self->document);
+  src->hessian_units = ds && ds->hessian_units ? ds->hessian_units : NULL;
+  src->n_sites = c->map->n_primitive;
+  src->sum_rule = c->sum_rule;
+}
+
+/* The table of the plot shown, in @format. */
+static char *
+table_of (QvLatticePane *self, const char *page, QvPhononTableFormat format, GError **error)
+{
+  const QvDocumentLattice *l = self->lattice;
+  const QvCrystal *c = l->crystal;
+
+  if (g_strcmp0 (page, "dispersion") == 0)
+    {
+      QvBandTableInfo info;
+      g_autofree char *path = NULL;
+      if (!has_bands (self))
+        {
+          g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "%s", l->path_note);
+          return NULL;
+        }
+      memset (&info, 0, sizeof info);
+      fill_source (self, &info.source);
+      memcpy (info.supercell, c->map->matrix, sizeof info.supercell);
+      info.n_cells = c->map->n_cells;
+      info.lattice = l->path->lattice;
+      path = qv_band_path_to_string (l->path);
+      info.path = path;
+      info.overlap = TRUE;
+      memcpy (info.gamma_acoustic, c->before, sizeof info.gamma_acoustic);
+      info.row_sum_removed = c->row_sum;
+      info.periodicity_residual = c->periodicity;
+      return qv_phonon_table_bands (&info, l->sampling, l->n_branches, l->bands, format);
+    }
+  if (l->dos == NULL || l->thermal == NULL)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "%s", l->mesh_note);
+      return NULL;
+    }
+  if (g_strcmp0 (page, "dos") == 0)
+    {
+      QvDosTableInfo info;
+      memset (&info, 0, sizeof info);
+      fill_source (self, &info.source);
+      info.n_q = (gsize) l->mesh[0] * (gsize) l->mesh[1] * (gsize) l->mesh[2];
+      info.unit = self->unit;
+      return qv_phonon_table_dos (&info, l->dos, format);
+    }
+  {
+    QvThermalTableInfo info;
+    g_autofree char *formula = qv_structure_formula (c->primitive);
+    memset (&info, 0, sizeof info);
+    fill_source (self, &info.source);
+    memcpy (info.mesh, l->mesh, sizeof info.mesh);
+    info.n_q = (gsize) l->mesh[0] * (gsize) l->mesh[1] * (gsize) l->mesh[2];
+    info.formula = formula;
+    info.formula_units = l->formula_units;
+    info.site_z = c->map->z;
+    return qv_phonon_table_thermal (&info, l->thermal, format);
+  }
+}
+
+/* The figure of the plot shown: SVG text or PNG bytes. */
+static guint8 *
+figure_of (QvLatticePane *self, const char *page, gboolean svg, int width, int height,
+           gsize *length, GError **error)
+{
+  const QvDocumentLattice *l = self->lattice;
+  g_autofree guint8 *rgba = NULL;
+  const char *text[] = { "Software", "quaver " QV_VERSION, NULL };
+
+  if (g_strcmp0 (page, "dispersion") == 0)
+    {
+      QvDispersionPlotOptions o;
+      if (!has_bands (self))
+        {
+          g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "%s", l->path_note);
+          return NULL;
+        }
+      dispersion_options (self, width, height, &o);
+      o.hover_q = o.hover_branch = -1;
+      if (svg)
+        return (guint8 *) qv_dispersion_plot_svg (l->sampling, l->n_branches, l->bands, &o,
+                                                  length, error);
+      rgba = qv_dispersion_plot_rgba (l->sampling, l->n_branches, l->bands, &o, error);
+    }
+  else if (l->dos == NULL || l->thermal == NULL)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "%s", l->mesh_note);
+      return NULL;
+    }
+  else if (g_strcmp0 (page, "dos") == 0)
+    {
+      QvDosPlotOptions o;
+      dos_options (self, width, height, &o);
+      o.has_hover = FALSE;
+      if (svg)
+        return (guint8 *) qv_dos_plot_svg (l->dos, &o, length, error);
+      rgba = qv_dos_plot_rgba (l->dos, &o, error);
+    }
+  else
+    {
+      QvThermalPlotOptions o;
+      thermal_options (self, width, height, &o);
+      o.has_hover = FALSE;
+      if (svg)
+        return (guint8 *) qv_thermal_plot_svg (l->thermal, &o, length, error);
+      rgba = qv_thermal_plot_rgba (l->thermal, &o, error);
+    }
+  if (rgba == NULL)
+    return NULL;
+  return qv_png_encode (rgba, width, height, FALSE, text, length, error);
+}
+
 gboolean
 qv_lattice_pane_save (QvLatticePane *self, const char *path, gboolean force, GError **error)
 {
   const char *dot = strrchr (path, '.');
   const char *page = gtk_stack_get_visible_child_name (self->plot_stack);
-  const int width = MAX (gtk_widget_get_width (GTK_WIDGET (self->dispersion_area)), 720);
-  const int height = MAX (gtk_widget_get_height (GTK_WIDGET (self->dispersion_area)), 420);
+  const int width = MAX (gtk_widget_get_width (GTK_WIDGET (self->plot_stack)), 720);
+  const int height = MAX (gtk_widget_get_height (GTK_WIDGET (self->plot_stack)), 420);
   g_autofree guint8 *bytes = NULL;
   gsize length = 0;
-  gboolean png = dot && g_ascii_strcasecmp (dot, ".png") == 0;
-  gboolean svg = dot && g_ascii_strcasecmp (dot, ".svg") == 0;
+  static const struct { const char *ext; int format; } kinds[] = {
+    { ".csv", QV_PHONON_TABLE_CSV }, { ".json", QV_PHONON_TABLE_JSON },
+    { ".txt", QV_PHONON_TABLE_TEXT }, { ".png", -1 }, { ".svg", -2 },
+  };
+  int kind = 0;
 
   if (self->lattice == NULL)
     {
       g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "%s", _("This document is not a crystal"));
       return FALSE;
     }
-  if (!png && !svg)
+  for (gsize i = 0; dot && i < G_N_ELEMENTS (kinds); i++)
+    if (g_ascii_strcasecmp (dot, kinds[i].ext) == 0)
+      kind = kinds[i].format == -1 ? -1 : kinds[i].format == -2 ? -2 : kinds[i].format + 1;
+  if (kind == 0)
     {
       g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "%s",
                    _("End the file name in .csv, .json, .txt, .png or .svg to choose the format"));
       return FALSE;
     }
-  if (g_strcmp0 (page, "dispersion") == 0)
+  if (kind > 0)
     {
-      QvDispersionPlotOptions o;
-      if (!has_bands (self))
-        {
-          g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "%s", self->lattice->path_note);
-          return FALSE;
-        }
-      dispersion_options (self, width, height, &o);
-      o.hover_q = o.hover_branch = -1;
-      if (svg)
-        bytes = (guint8 *) qv_dispersion_plot_svg (self->lattice->sampling,
-                                                   self->lattice->n_branches, self->lattice->bands,
-                                                   &o, &length, error);
-      else
-        {
-          g_autofree guint8 *rgba = qv_dispersion_plot_rgba (self->lattice->sampling,
-                                                             self->lattice->n_branches,
-                                                             self->lattice->bands, &o, error);
-          const char *text[] = { "Software", "quaver " QV_VERSION, NULL };
-          if (rgba)
-            bytes = qv_png_encode (rgba, o.width, o.height, FALSE, text, &length, error);
-        }
+      char *text = table_of (self, page, (QvPhononTableFormat) (kind - 1), error);
+      if (text == NULL)
+        return FALSE;
+      length = strlen (text);
+      bytes = (guint8 *) text;
     }
-  if (bytes == NULL)
+  else if ((bytes = figure_of (self, page, kind == -2, width, height, &length, error)) == NULL)
     return FALSE;
   return qv_output_write (path, (const char *) bytes, length, force, error);
 }
@@ -485,6 +762,7 @@ qv_lattice_pane_set_property (GObject *object, guint id, const GValue *value, GP
       update_selection_label (self);
       gtk_widget_queue_draw (GTK_WIDGET (self->dispersion_area));
       gtk_widget_queue_draw (GTK_WIDGET (self->dos_area));
+      gtk_widget_queue_draw (GTK_WIDGET (self->thermal_area));
       break;
     default: G_OBJECT_WARN_INVALID_PROPERTY_ID (object, id, pspec);
     }
@@ -553,6 +831,15 @@ qv_lattice_pane_init (QvLatticePane *self)
   self->selected_q = self->selected_branch = self->hover_q = self->hover_branch = -1;
   self->unit = QV_FREQUENCY_CM1;
   gtk_drawing_area_set_draw_func (self->dispersion_area, draw_dispersion, self, NULL);
+  gtk_drawing_area_set_draw_func (self->dos_area, draw_dos, self, NULL);
+  gtk_drawing_area_set_draw_func (self->thermal_area, draw_thermal, self, NULL);
+  for (int i = 0; i < 2; i++)
+    {
+      controller = gtk_event_controller_motion_new ();
+      g_signal_connect (controller, "motion", G_CALLBACK (plot_motion), self);
+      g_signal_connect (controller, "leave", G_CALLBACK (plot_leave), self);
+      gtk_widget_add_controller (GTK_WIDGET (i ? self->thermal_area : self->dos_area), controller);
+    }
 
   controller = gtk_event_controller_motion_new ();
   g_signal_connect (controller, "motion", G_CALLBACK (motion), self);

@@ -17,6 +17,10 @@
 #include "gui-test-util.h"
 #include "qv-dispersion-plot.h"
 #include "qv-error.h"
+#include "qv-export-pane.h"
+#include "qv-export-section-stencil.h"
+#include "qv-symmetric-stencil.h"
+#include "qv-window-private.h"
 
 #define CRYSTAL_DIR "data/examples/rocksalt-springs"
 
@@ -150,8 +154,15 @@ test_click_shows_lattice_mode (void **state)
   qvg_spin (0.2);
   assert_true (qv_mode_view_is_complex (view));
   assert_non_null (strstr (qv_motion_bar_get_summary (qv_window_get_motion_bar (window)), "0.300"));
+  /* the window may still have been settling its layout: aim anew */
+  o.width = gtk_widget_get_width (area);
+  o.height = gtk_widget_get_height (area);
+  assert_true (qv_dispersion_plot_point_to_pixel (l->sampling, l->n_branches, l->bands, &o,
+                                                  target_q, (gsize) b, &px, &py));
   text = qv_lattice_pane_describe_point (pane, px, py);
-  assert_non_null (strstr (text, "L"));
+  if (strstr (text, " L ") == NULL)
+    print_error ("read-out at (%g, %g): '%s'\n", px, py, text);
+  assert_non_null (strstr (text, " L "));
   assert_non_null (strstr (text, "q = (0.500 0.500 0.500)"));
 
   /* a miss selects nothing new */
@@ -214,6 +225,139 @@ test_save (void **state)
   gtk_window_destroy (GTK_WINDOW (window));
 }
 
+static JsonParser *
+run_json (const char *dir, const char *const *argv)
+{
+  g_autofree char *out = NULL, *err = NULL;
+  int status = -1;
+  JsonParser *parser = json_parser_new ();
+
+  assert_true (g_spawn_sync (dir, (char **) argv, NULL, G_SPAWN_DEFAULT, NULL, NULL, &out, &err,
+                             &status, NULL));
+  if (status != 0)
+    print_error ("%s: %s\n", argv[1], err);
+  assert_int_equal (status, 0);
+  assert_true (json_parser_load_from_data (parser, out, -1, NULL));
+  return parser;
+}
+
+static JsonParser *
+read_json (const char *path)
+{
+  JsonParser *parser = json_parser_new ();
+  assert_true (json_parser_load_from_file (parser, path, NULL));
+  return parser;
+}
+
+static double
+max_difference (JsonObject *a, JsonObject *b, const char *member)
+{
+  JsonArray *x = json_object_get_array_member (a, member), *y = json_object_get_array_member (b, member);
+  double worst = 0;
+  assert_int_equal (json_array_get_length (x), json_array_get_length (y));
+  for (guint i = 0; i < json_array_get_length (x); i++)
+    worst = MAX (worst, fabs (json_array_get_double_element (x, i) - json_array_get_double_element (y, i)));
+  return worst;
+}
+
+/* The thermal table the app saves is `quaver thermo` on the same files
+ * and mesh (the command is checked against NumPy in test_thermo_numpy.py
+ * and Dulong–Petit in test-dos.c); the DOS integrates to 3n = 6 states;
+ * the read-outs name what is under the pointer. */
+static void
+test_dos_and_thermal (void **state)
+{
+  QvWindow *window = open_crystal ();
+  QvLatticePane *pane = qv_window_get_lattice_pane (window);
+  const QvDocumentLattice *l = qv_document_get_lattice (qv_window_get_document (window));
+  g_autofree char *src = source_path (CRYSTAL_DIR);
+  g_autofree char *dir = g_dir_make_tmp ("qv-lattice-XXXXXX", NULL);
+  g_autofree char *thermal = g_build_filename (dir, "thermal.json", NULL);
+  g_autofree char *dos = g_build_filename (dir, "dos.json", NULL);
+  g_autofree char *mesh = g_strdup_printf ("%dx%dx%d", l->mesh[0], l->mesh[1], l->mesh[2]);
+  const char *argv[] = { g_getenv ("QUAVER"), "thermo", "mx-primitive.xyz", "-S", "mx-supercell.xyz",
+                         "-H", "mx.hessian.npy", "-u", "eV/A^2", "--born", "mx.born.txt", "--mesh",
+                         mesh, "--t-max", "1000", "--t-step", "10", "-f", "json", NULL };
+  g_autoptr(JsonParser) cli = run_json (src, argv);
+  g_autoptr(JsonParser) app = NULL, app_dos = NULL;
+  g_autoptr(GError) error = NULL;
+  JsonObject *a, *c;
+  g_autofree char *text = NULL;
+  (void) state;
+
+  qv_lattice_pane_show_plot (pane, "thermal");
+  qvg_spin (0.3);
+  assert_true (qv_lattice_pane_save (pane, thermal, FALSE, &error));
+  app = read_json (thermal);
+  a = json_node_get_object (json_parser_get_root (app));
+  c = json_node_get_object (json_parser_get_root (cli));
+  assert_int_equal (json_object_get_int_member (a, "n_q"), json_object_get_int_member (c, "n_q"));
+  assert_true (max_difference (a, c, "T") == 0);
+  assert_true (max_difference (a, c, "S") < 1e-9);
+  assert_true (max_difference (a, c, "Cv") < 1e-9);
+  assert_true (max_difference (a, c, "F") < 1e-9);
+  /* read-out in the middle of the plot: a temperature and F, S, Cv */
+  text = qv_lattice_pane_describe_point (pane, gtk_widget_get_width (GTK_WIDGET (pane)) / 2.0,
+                                         gtk_widget_get_height (GTK_WIDGET (pane)) / 2.0);
+  assert_non_null (strstr (text, " K · F "));
+  g_clear_pointer (&text, g_free);
+
+  qv_lattice_pane_show_plot (pane, "dos");
+  qvg_spin (0.3);
+  assert_true (qv_lattice_pane_save (pane, dos, FALSE, &error));
+  app_dos = read_json (dos);
+  {
+    JsonObject *d = json_node_get_object (json_parser_get_root (app_dos));
+    JsonArray *total = json_object_get_array_member (d, "total");
+    double sum = 0, step = json_object_get_double_member (d, "step");
+    for (guint i = 0; i < json_array_get_length (total); i++)
+      sum += json_array_get_double_element (total, i) * step;
+    /* 3 branches per site, 2 sites (tetrahedron bins hold exact counts) */
+    assert_true (fabs (sum - 6.0) < 1e-6);
+  }
+  text = qv_lattice_pane_describe_point (pane, gtk_widget_get_width (GTK_WIDGET (pane)) / 2.0,
+                                         gtk_widget_get_height (GTK_WIDGET (pane)) / 2.0);
+  assert_non_null (strstr (text, "DOS"));
+  assert_non_null (strstr (text, "Na"));
+  g_unlink (thermal);
+  g_unlink (dos);
+  g_rmdir (dir);
+  gtk_window_destroy (GTK_WINDOW (window));
+}
+
+/* The export pane offers the symmetry-reduced stencil for the periodic
+ * supercell: its file count is the core's count of symmetry-distinct
+ * displacements (checked against the full stencil's Hessian in
+ * test-symmetric-stencil.c) plus the reference. */
+static void
+test_symmetric_stencil_offered (void **state)
+{
+  QvWindow *window = open_crystal ();
+  QvExportPane *pane = qv_window_get_export_pane (window);
+  QvExportSectionStencil *stencil;
+  const QvStructure *sc = qv_document_get_structure (qv_window_get_document (window));
+  g_autoptr(GError) error = NULL;
+  QvSymmetricStencil *st = qv_symmetric_stencil_new (sc, 0.01, 0, &error);
+  gsize n;
+  (void) state;
+
+  g_action_group_activate_action (G_ACTION_GROUP (window), "toggle-export-pane", NULL);
+  qvg_spin (0.5);
+  stencil = QV_EXPORT_SECTION_STENCIL (qv_export_pane_get_section (pane, "stencil", TRUE));
+  qvg_spin (0.2);
+  assert_non_null (st);
+  n = qv_symmetric_stencil_n_displacements (st);
+  qv_symmetric_stencil_free (st);
+  assert_int_equal (qv_export_section_stencil_get_n_files (stencil), 6 * sc->n_atoms + 1);
+  qv_export_section_stencil_set_symmetric (stencil, TRUE);
+  qvg_spin (0.2);
+  assert_int_equal (qv_export_section_stencil_get_n_files (stencil), n + 1);
+  /* rock salt: both sites have the full cubic site symmetry, so a handful
+   * of displacements replace 6N = 324 */
+  assert_true (n < 12);
+  gtk_window_destroy (GTK_WINDOW (window));
+}
+
 /* A molecule has no lattice page. */
 static void
 test_molecule_has_no_lattice (void **state)
@@ -225,8 +369,14 @@ test_molecule_has_no_lattice (void **state)
   assert_true (qvg_wait (qvg_window_has_document, window, 60.0));
   assert_true (qvg_wait (qvg_window_idle, window, 60.0));
   assert_null (qv_document_get_lattice (qv_window_get_document (window)));
-  assert_false (qv_window_get_side_switcher_visible (window));
   assert_string_equal (qv_window_get_side_page (window), "modes");
+  {
+    /* the side panel offers no Lattice page */
+    GtkWidget *pane = GTK_WIDGET (qv_window_get_lattice_pane (window));
+    GtkStack *stack = GTK_STACK (gtk_widget_get_ancestor (pane, GTK_TYPE_STACK));
+    GtkStackPage *page = gtk_stack_get_page (stack, pane);
+    assert_false (gtk_stack_page_get_visible (page));
+  }
   gtk_window_destroy (GTK_WINDOW (window));
 }
 
@@ -237,6 +387,8 @@ main (void)
     cmocka_unit_test (test_dispersion_is_the_commands),
     cmocka_unit_test (test_click_shows_lattice_mode),
     cmocka_unit_test (test_save),
+    cmocka_unit_test (test_dos_and_thermal),
+    cmocka_unit_test (test_symmetric_stencil_offered),
     cmocka_unit_test (test_molecule_has_no_lattice),
   };
   qvg_app ();
