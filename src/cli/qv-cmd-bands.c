@@ -142,34 +142,12 @@ qv_cmd_bands (int argc, char **argv)
   sampling = qv_band_path_sample (path, lattice->primitive->cell, (gsize) points, density, &error);
   if (sampling == NULL)
     goto fail;
-  solve_q = g_memdup2 (sampling->q, 3 * sampling->n_q * sizeof (double));
-  if (lattice->na)
-    {
-      /* Polar crystals: the non-analytic term (qv-nonanalytic.h, read by
-       * qv-cli-lattice). At Γ itself it depends on the direction of
-       * approach, so a path point at Γ is solved a step of 1e-6
-       * (fractional) towards its neighbour on the same piece of the path;
-       * its reported q stays Γ. */
-      for (gsize k = 0; k < sampling->n_q; k++)
-        {
-          double *q = solve_q + 3 * k, d[3], norm = 0.0;
-          gssize j;
-          if (q[0] != 0.0 || q[1] != 0.0 || q[2] != 0.0)
-            continue;
-          j = (k + 1 < sampling->n_q && !sampling->restart[k + 1]) ? (gssize) k + 1
-              : (k > 0 && !sampling->restart[k]) ? (gssize) k - 1 : -1;
-          if (j < 0)
-            continue;
-          for (int c = 0; c < 3; c++)
-            {
-              d[c] = sampling->q[3 * j + c];
-              norm += d[c] * d[c];
-            }
-          norm = sqrt (norm);
-          for (int c = 0; c < 3; c++)
-            q[c] = norm > 0.0 ? 1e-6 * d[c] / norm : 0.0;
-        }
-    }
+  /* Polar crystals: the non-analytic term (qv-nonanalytic.h, read by
+   * qv-cli-lattice) depends at Γ on the direction of approach, so a path
+   * point at Γ is solved 1e-6 (fractional) towards its neighbour on the
+   * same piece of the path; its reported q stays Γ. */
+  solve_q = lattice->na ? qv_band_sampling_solve_points (sampling, 1e-6)
+                        : g_memdup2 (sampling->q, 3 * sampling->n_q * sizeof (double));
   set = lattice->na
     ? qv_dynamical_matrix_solve_with (fc, qv_nonanalytic_add, lattice->na, solve_q, sampling->n_q, overlap,
                                       (guint) lo.threads, &progress, &error)
