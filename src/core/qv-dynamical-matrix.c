@@ -6,6 +6,7 @@
 #include <string.h>
 #include "qv-dynamical-matrix.h"
 #include "qv-error.h"
+#include "qv-size.h"
 #include "qv-supercell.h"
 #include "qv-units.h"
 
@@ -275,6 +276,22 @@ qv_dynamical_matrix_solve_with (const QvForceConstants *fc, QvDynamicalTerm term
                    " branches would not fit in memory: use fewer q points", n_q, nb);
       return NULL;
     }
+  {
+    /* the eigenvalues and wavenumbers of every q point, and the vectors */
+    gsize values, vectors = 0;
+    guint64 need;
+    if (!qv_size_mul3 (n_q, nb, 2 * sizeof (double), &values)
+        || (want_vectors && !qv_size_mul3 (n_q, nb * nb, sizeof (double _Complex), &vectors))
+        || (need = (guint64) values + vectors) < values)
+      {
+        g_set_error (error, QV_ERROR, QV_ERROR_LIMIT,
+                     "%" G_GSIZE_FORMAT " q points of %" G_GSIZE_FORMAT " branches are too many "
+                     "to count in bytes: use fewer q points", n_q, nb);
+        return NULL;
+      }
+    if (!qv_size_check_memory (need, "the frequencies at these q points", error))
+      return NULL;
+  }
   set->n_q = n_q;
   set->n_branches = nb;
   set->q = g_memdup2 (q, 3 * n_q * sizeof (double));

@@ -21,6 +21,7 @@
 #include "qv-element.h"
 #include "qv-hessian-file.h"
 #include "qv-io-error.h"
+#include "qv-size.h"
 
 #define BUNDLE_FORMAT "quaver-bundle"
 #define BUNDLE_VERSION 1
@@ -1427,6 +1428,19 @@ read_modes (Reader *r, JsonNode *node, const QvStructure *s)
             "wavenumber, found %u", n_modes, json_array_get_length (d));
       return NULL;
     }
+  {
+    /* n_modes and 3N are both counts of what the file lists, but their
+     * product is not: refuse what cannot fit before g_new would abort */
+    gsize bytes;
+    g_autoptr(GError) too_large = NULL;
+    if (!qv_size_mul3 (n_modes, n_dim, sizeof (double), &bytes)
+        || !qv_size_check_memory (bytes, "the displacement vectors", &too_large))
+      {
+        fail (r, "modes.displacements", "%s", too_large ? too_large->message
+              : "too many displacement vectors to count in bytes");
+        return NULL;
+      }
+  }
   wavenumbers = g_new (double, n_modes);
   displacements = g_new (double, n_modes * n_dim);
   for (gsize k = 0; k < n_modes; k++)
