@@ -394,12 +394,13 @@ draw_plot (cairo_t *cr, gconstpointer data)
   /* legend, top right inside the box: total, then each element */
   if (has_grid (dos) && !(o->hide_partial && o->hide_total))
     {
+      const char *total_word = o->total_label ? o->total_label : "total";
       double y = p.t + 8, w = 0, tw, th;
       const gsize n = (o->hide_total ? 0 : 1) + (o->hide_partial || !dos->partial ? 0 : dos->n_groups);
       for (gsize i = 0; i < n; i++)
         {
           const gsize g = o->hide_total ? i : i - 1;
-          qv_plot_text_size (layout, (!o->hide_total && i == 0) ? "total" : symbol (dos->z[g]), &tw, &th);
+          qv_plot_text_size (layout, (!o->hide_total && i == 0) ? total_word : symbol (dos->z[g]), &tw, &th);
           w = MAX (w, tw);
         }
       for (gsize i = 0; i < n; i++)
@@ -413,7 +414,7 @@ draw_plot (cairo_t *cr, gconstpointer data)
           cairo_line_to (cr, x - 6, y + 0.5 * QV_PLOT_FONT_PX + 1);
           cairo_stroke (cr);
           qv_plot_set_rgb (cr, pal->ink, 1.0);
-          qv_plot_text (cr, layout, is_total ? "total" : symbol (dos->z[g]), x, y, 0.0, 0.0, NULL);
+          qv_plot_text (cr, layout, is_total ? total_word : symbol (dos->z[g]), x, y, 0.0, 0.0, NULL);
           y += QV_PLOT_FONT_PX + 6;
         }
     }

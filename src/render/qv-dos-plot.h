@@ -40,6 +40,8 @@ typedef struct {
   const char *dos_label;       /* NULL: "DOS (states/cm⁻¹/cell)" etc. */
   gboolean has_hover;          /* a marker line at hover_frequency (cm⁻¹) */
   double hover_frequency;
+  const char *total_label;     /* the legend's total, NULL: "total" (element
+                                  symbols stay as they are) */
 } QvDosPlotOptions;
 
 /* 900 × 500, cm⁻¹, total and partial, frequency along the bottom. */

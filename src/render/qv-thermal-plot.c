@@ -351,14 +351,16 @@ draw_panel (cairo_t *cr, PangoLayout *layout, const Plot *p, QvThermalPanel pane
   {
     g_autofree char *label = g_strdup_printf (energy ? "energy (%s)" : "S, Cv (%s)",
                                               qv_thermal_plot_unit (o, panel));
+    const char *given = energy ? o->energy_label : o->entropy_label;
     cairo_save (cr);
     cairo_translate (cr, 16, 0.5 * (t + b));
     cairo_rotate (cr, -G_PI / 2);
-    qv_plot_text (cr, layout, label, 0, 0, 0.5, 0.5, NULL);
+    qv_plot_text (cr, layout, given ? given : label, 0, 0, 0.5, 0.5, NULL);
     cairo_restore (cr);
   }
   if (!energy)
-    qv_plot_text (cr, layout, "temperature (K)", 0.5 * (l + r), b + 26, 0.5, 0.0, NULL);
+    qv_plot_text (cr, layout, o->temperature_label ? o->temperature_label : "temperature (K)",
+                  0.5 * (l + r), b + 26, 0.5, 0.0, NULL);
 }
 
 static void

@@ -25,6 +25,11 @@ typedef struct {
   double t_min, t_max;         /* K */
   gboolean has_hover;          /* a marker line at hover_t (K) */
   double hover_t;
+  /* Axis labels, NULL: "energy (kJ/mol)", "S, Cv (J/(K mol))" (or the per-cell
+   * units), "temperature (K)" — English, not translated (as the spectrum
+   * plot); the app passes its translations. The legend's F, U, ZPE, S, Cv
+   * are symbols. */
+  const char *energy_label, *entropy_label, *temperature_label;
 } QvThermalPlotOptions;
 
 typedef enum {

@@ -293,6 +293,43 @@ test_thermal_pixels (void **state)
   assert_null (rgba);
 }
 
+static guint
+count_glyphs (const char *svg)
+{
+  guint n = 0;
+  for (const char *p = svg; (p = strstr (p, "<use ")) != NULL; p++)
+    n++;
+  return n;
+}
+
+/* The app's (translated) labels replace the English ones: cairo's SVG
+ * places one glyph per character (spaces too), so "T/K" for
+ * "temperature (K)" takes 12 fewer, "sum" for "total" 2 fewer. */
+static void
+test_labels_given (void **state)
+{
+  g_autoptr(QvThermal) th = make_thermal ();
+  g_autoptr(QvPhononDos) dos = make_dos ();
+  g_autoptr(GError) error = NULL;
+  QvThermalPlotOptions t;
+  QvDosPlotOptions d;
+  gsize n;
+  g_autofree char *a = NULL, *c = NULL, *x = NULL, *y = NULL;
+
+  qv_thermal_plot_options_init (&t);
+  a = qv_thermal_plot_svg (th, &t, &n, &error);
+  t.temperature_label = "T/K";
+  c = qv_thermal_plot_svg (th, &t, &n, &error);
+  assert_true (a && c);
+  assert_int_equal (count_glyphs (a), count_glyphs (c) + 12);
+  qv_dos_plot_options_init (&d);
+  x = qv_dos_plot_svg (dos, &d, &n, &error);
+  d.total_label = "sum";
+  y = qv_dos_plot_svg (dos, &d, &n, &error);
+  assert_true (x && y);
+  assert_int_equal (count_glyphs (x), count_glyphs (y) + 2);
+}
+
 static int
 write_samples (const char *dir)
 {
@@ -338,6 +375,7 @@ main (int argc, char **argv)
     cmocka_unit_test (test_dos_pixels),
     cmocka_unit_test (test_thermal_mapping_and_readout),
     cmocka_unit_test (test_thermal_pixels),
+    cmocka_unit_test (test_labels_given),
   };
   if (argc == 3 && strcmp (argv[1], "svg") == 0)
     return write_samples (argv[2]);
