@@ -188,7 +188,27 @@ qv_document_lattice_new (const QvInput *input, const QvProgress *progress, char 
     }
   group = qv_space_group_find (l->crystal->primitive, SYMPREC, NULL);
   if (group != NULL)
-    l->space_group = g_strdup_printf ("%s (%d)", group->international, group->number);
+    {
+      g_autoptr(QvStructure) conv = qv_space_group_standardized (l->crystal->primitive, SYMPREC,
+                                                                 TRUE, NULL);
+      l->space_group = g_strdup_printf ("%s (%d)", group->international, group->number);
+      if (conv != NULL)
+        {
+          const double (*a)[3] = conv->cell;
+          double len[3];
+          for (int i = 0; i < 3; i++)
+            len[i] = sqrt (a[i][0] * a[i][0] + a[i][1] * a[i][1] + a[i][2] * a[i][2]);
+          for (int i = 0; i < 3; i++)
+            {
+              const int j = (i + 1) % 3, k = (i + 2) % 3;
+              const double dot = a[j][0] * a[k][0] + a[j][1] * a[k][1] + a[j][2] * a[k][2];
+              l->conventional[i] = len[i];
+              l->conventional[3 + i] = acos (CLAMP (dot / (len[j] * len[k]), -1.0, 1.0)) * 180.0 / G_PI;
+            }
+          l->has_conventional = TRUE;
+          l->conventional_atoms = conv->n_atoms;
+        }
+    }
 
   if (cancelled (progress, 0.0, N_("dispersion")))
     return NULL;

@@ -25,6 +25,9 @@ typedef struct {
   QvCrystal *crystal;
   char *space_group;           /* "Fm-3m (225)", or NULL when spglib found none */
   char *origin;                /* how the primitive cell was found: "bundle", "spglib" */
+  gboolean has_conventional;   /* spglib's standardised (conventional) cell: */
+  double conventional[6];      /*   a, b, c (Å), α, β, γ (degrees) */
+  gsize conventional_atoms;
   QvBandPath *path;            /* NULL: see @path_note */
   QvBandSampling *sampling;
   gsize n_branches;

@@ -439,6 +439,14 @@ update_info (QvLatticePane *self)
                               m->matrix[2][2]);
   }
   g_string_append_c (s, '\n');
+  if (l->has_conventional)
+    {
+      const double *c = l->conventional;
+      /* TRANSLATORS: spglib's standardised cell: lengths a, b, c, angles α, β, γ, atom count */
+      g_string_append_printf (s, _("Conventional cell: %.4f, %.4f, %.4f Å; %.2f°, %.2f°, %.2f°; %u atoms"),
+                              c[0], c[1], c[2], c[3], c[4], c[5], (guint) l->conventional_atoms);
+      g_string_append_c (s, '\n');
+    }
   /* TRANSLATORS: the three acoustic frequencies at Γ before the acoustic
    * sum rule set them to zero; large values mean an unconverged input */
   {

@@ -85,6 +85,16 @@ test_dispersion_is_the_commands (void **state)
   /* rock salt: space group Fm-3m, No. 225 (International Tables for
    * Crystallography A; common knowledge) */
   assert_string_equal (l->space_group, "Fm-3m (225)");
+  /* the conventional cell of an fcc lattice: the cube of edge a (5.64 Å in
+   * the generator, tests/tools/make-demo-crystal.py) holding 4 primitive
+   * cells, 8 atoms */
+  assert_true (l->has_conventional);
+  for (int i = 0; i < 3; i++)
+    {
+      assert_true (fabs (l->conventional[i] - 5.64) < 1e-6);
+      assert_true (fabs (l->conventional[3 + i] - 90.0) < 1e-6);
+    }
+  assert_int_equal (l->conventional_atoms, 8);
   assert_non_null (l->crystal->na);
   assert_int_equal (json_array_get_length (points), l->sampling->n_q);
   for (gsize k = 0; k < l->sampling->n_q; k++)
