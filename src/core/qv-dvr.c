@@ -238,6 +238,18 @@ qv_dvr_levels_mean (const QvDvrLevels *levels, gsize level, guint axis)
 }
 
 double
+qv_dvr_levels_wavefunction (const QvDvrLevels *levels, gsize level, gsize point)
+{
+  double cell = 1.0;
+
+  g_return_val_if_fail (levels != NULL && level < levels->n_levels
+                        && point < levels->n_points, NAN);
+  for (guint d = 0; d < levels->grid.dim; d++)
+    cell *= levels->grid.step[d];
+  return levels->vectors[levels->n_points * level + point] / sqrt (cell);
+}
+
+double
 qv_dvr_levels_coordinate_element (const QvDvrLevels *levels, gsize a, gsize b, guint axis)
 {
   const double *ca = levels->vectors + levels->n_points * a;

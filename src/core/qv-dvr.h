@@ -74,6 +74,11 @@ QvDvrLevels *qv_dvr_solve (const QvDvrGrid *grid, const double *potential, doubl
  * outermost point). */
 double qv_dvr_levels_mean (const QvDvrLevels *levels, gsize level, guint axis);
 double qv_dvr_levels_edge_weight (const QvDvrLevels *levels, gsize level, double fraction);
+/* The normalised wavefunction of @level at grid point @point (1/√(u^½ Å)
+ * per axis): c_i/√(Π_d step_d). The sinc DVR basis function of point i is
+ * 1/√Δx at x_i and zero at every other point, so these are ψ's values on
+ * the grid, and Σ_i ψ_i² Π_d step_d = 1. */
+double qv_dvr_levels_wavefunction (const QvDvrLevels *levels, gsize level, gsize point);
 /* ⟨ψ_a| x_axis |ψ_b⟩ on the grid. */
 double qv_dvr_levels_coordinate_element (const QvDvrLevels *levels, gsize a, gsize b,
                                          guint axis);

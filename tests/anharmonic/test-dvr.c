@@ -120,6 +120,27 @@ test_harmonic_levels (void **state)
           }
           assert_true (qv_dvr_levels_edge_weight (levels, k, 0.05) < 1e-8);
         }
+      /* the wavefunctions on the grid: ψ_0 = (α/π)^¼ exp(−αQ²/2) and
+       * ψ_1 = (α/π)^¼ √(2α) Q exp(−αQ²/2), α = ω/ħ (Griffiths, Introduction
+       * to Quantum Mechanics, eqs. 2.59 and 2.63, from memory); ψ_0 comes
+       * out positive (its largest component), ψ_1's sign is a tie, so its
+       * magnitude is compared */
+      {
+        const double alpha = 1.0 / hbar_over_omega (h.lambda);
+        const double peak = pow (alpha / M_PI, 0.25);
+        double norm = 0.0;
+        for (gsize i = 0; i < n; i++)
+          {
+            double x;
+            qv_dvr_grid_point (&grid, i, &x);
+            const double g = peak * exp (-0.5 * alpha * x * x);
+            assert_abs (qv_dvr_levels_wavefunction (levels, 0, i), g, 1e-7 * peak);
+            assert_abs (fabs (qv_dvr_levels_wavefunction (levels, 1, i)),
+                        fabs (sqrt (2 * alpha) * x * g), 1e-7 * peak);
+            norm += pow (qv_dvr_levels_wavefunction (levels, 3, i), 2) * grid.step[0];
+          }
+        assert_abs (norm, 1.0, 1e-12);
+      }
       /* ⟨0|Q|1⟩² = ħ/(2ω) (ladder operators; Griffiths ch. 2) */
       {
         const double m01 = qv_dvr_levels_coordinate_element (levels, 0, 1, 0);
