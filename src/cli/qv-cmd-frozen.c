@@ -30,6 +30,8 @@ static const char frozen_description_tail[] =
   "(--largest, A, default 0.05) or the normal coordinate A (--normal-coordinate,\n"
   "sqrt(u) A). A static pattern at q other than -q holds q and -q together:\n"
   "started at rest it is a standing wave.\n"
+  "With --born the eigenvector and wavenumber are those of D(q) with the\n"
+  "LO-TO term (as quaver bands --born shows them).\n"
   "\n"
   "Writes DIR/frozen-phonon.xyz (extended XYZ with Lattice, masses, and q,\n"
   "branch, wavenumber, amplitude and phase on the comment line) and\n"
@@ -186,7 +188,10 @@ qv_cmd_frozen (int argc, char **argv)
         goto fail;
       map = lattice->map;
     }
-  fp = qv_frozen_phonon_new (lattice->fc, map, cell, &request, &error);
+  /* with --born, D(q) has the LO-TO term too (at Gamma itself, which has
+   * no direction of approach, it adds nothing: qv-nonanalytic.h) */
+  fp = qv_frozen_phonon_new_with (lattice->fc, lattice->na ? qv_nonanalytic_add : NULL, lattice->na,
+                                  map, cell, &request, &error);
   if (fp == NULL)
     goto fail;
   qv_manifest_set_number (manifest->options, "phase_deg", phase_deg);

@@ -64,6 +64,36 @@ qv_frozen_phonon_new (const QvForceConstants *fc, const QvSupercellMap *map,
                       const QvStructure *supercell, const QvFrozenRequest *request,
                       GError **error)
 {
+  return qv_frozen_phonon_new_with (fc, NULL, NULL, map, supercell, request, error);
+}
+
+gboolean
+qv_frozen_phonon_diagonal_supercell (const double q[3], int max, int matrix[3][3], GError **error)
+{
+  memset (matrix, 0, 9 * sizeof (int));
+  for (int i = 0; i < 3; i++)
+    {
+      int n = 1;
+      while (n <= max && !near_integer (n * q[i]))
+        n++;
+      if (n > max)
+        {
+          g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
+                       "q = (%g %g %g) needs more than %d cells along b%d for a frozen phonon: "
+                       "choose a q with small denominators, such as 1/2, 1/3 or 1/4",
+                       q[0], q[1], q[2], max, i + 1);
+          return FALSE;
+        }
+      matrix[i][i] = n;
+    }
+  return TRUE;
+}
+
+QvFrozenPhonon *
+qv_frozen_phonon_new_with (const QvForceConstants *fc, QvDynamicalTerm term, gpointer data,
+                           const QvSupercellMap *map, const QvStructure *supercell,
+                           const QvFrozenRequest *request, GError **error)
+{
   gsize n = qv_force_constants_n_sites (fc), nb = 3 * n;
   const double (*cell)[3] = qv_force_constants_cell (fc);
   g_autoptr(QvPhononSet) set = NULL;
@@ -93,7 +123,7 @@ qv_frozen_phonon_new (const QvForceConstants *fc, const QvSupercellMap *map,
                    request->amplitude, request->phase);
       return NULL;
     }
-  set = qv_dynamical_matrix_solve (fc, request->q, 1, TRUE, 1, NULL, error);
+  set = qv_dynamical_matrix_solve_with (fc, term, data, request->q, 1, TRUE, 1, NULL, error);
   if (set == NULL)
     return NULL;
 

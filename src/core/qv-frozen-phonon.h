@@ -15,6 +15,7 @@
 
 #include <complex.h>
 #include <glib.h>
+#include "qv-dynamical-matrix.h"
 #include "qv-force-constants.h"
 #include "qv-structure.h"
 #include "qv-supercell.h"
@@ -69,6 +70,20 @@ gboolean qv_frozen_phonon_q_is_real (const double q[3]);
 QvFrozenPhonon *qv_frozen_phonon_new (const QvForceConstants *fc, const QvSupercellMap *map,
                                       const QvStructure *supercell,
                                       const QvFrozenRequest *request, GError **error);
+
+/* qv_frozen_phonon_new with @term and @data added to D(q) (the LO–TO term
+ * of a polar crystal, qv-nonanalytic.h; NULL: the same as _new). */
+QvFrozenPhonon *qv_frozen_phonon_new_with (const QvForceConstants *fc, QvDynamicalTerm term,
+                                           gpointer data, const QvSupercellMap *map,
+                                           const QvStructure *supercell,
+                                           const QvFrozenRequest *request, GError **error);
+
+/* The smallest diagonal supercell (in primitive vectors) commensurate with
+ * fractional @q, at most @max cells along each vector: n_i the least
+ * positive integer with n_i q_i integer (within 10⁻⁸). QV_ERROR_USAGE
+ * naming q otherwise. */
+gboolean qv_frozen_phonon_diagonal_supercell (const double q[3], int max, int matrix[3][3],
+                                              GError **error);
 
 /* The complex amplitude z = A e^{iφ} of a displacement field @u (3 n_atoms,
  * Å) along the unit vector @e (3n) at q ≢ −q:

@@ -19,6 +19,7 @@
 #include "qv-force-constants.h"
 #include "qv-frozen-phonon.h"
 #include "qv-manifest.h"
+#include "qv-nonanalytic.h"
 #include "qv-supercell.h"
 #include "qv-xyz.h"
 
@@ -277,6 +278,79 @@ test_refused (void **state)
   assert_false (qv_frozen_phonon_q_is_real ((double[3]) { 1.0 / 3, 0, 0 }));
 }
 
+/* With the LO–TO term (qv_frozen_phonon_new_with), the pattern follows the
+ * eigenvector of D(q) + D^NA(q), built here by LAPACKE_zheev from
+ * qv_dynamical_matrix_build_with; without a term it is _new's, bit for bit. */
+static void
+test_with_nonanalytic (void **state)
+{
+  Fixture *f = *state;
+  /* invented rigid-ion charges ±1.1 e, eps_inf 2.4 */
+  const double born[18] = { 1.1, 0, 0, 0, 1.1, 0, 0, 0, 1.1, -1.1, 0, 0, 0, -1.1, 0, 0, 0, -1.1 };
+  const double eps[3][3] = { { 2.4, 0, 0 }, { 0, 2.4, 0 }, { 0, 0, 2.4 } };
+  /* not commensurate with the force constants' 3×3×3 supercell, where the
+   * interpolated term vanishes (qv-nonanalytic.h); a 6×1×1 cell for it */
+  const double q[3] = { 1.0 / 6, 0, 0 };
+  int m6[3][3] = { { 6, 0, 0 }, { 0, 1, 0 }, { 0, 0, 1 } };
+  g_autoptr(QvStructure) sc6 = qv_supercell_build (f->primitive, m6, NULL);
+  g_autoptr(QvSupercellMap) map6 = qv_supercell_map (f->primitive, sc6, 0, NULL);
+  g_autoptr(QvNonAnalytic) na = qv_nonanalytic_new (f->fc, 2, born, eps, NULL);
+  g_autoptr(QvPhononSet) plain_set = qv_dynamical_matrix_solve (f->fc, q, 1, FALSE, 1, NULL, NULL);
+  g_autoptr(QvFrozenPhonon) plain = NULL, with = NULL, none = NULL;
+  double _Complex d[36], dot = 0;
+  double w[6], moved = 0;
+  gsize lo = 0;
+
+  assert_non_null (na);
+  assert_non_null (plain_set);
+  qv_dynamical_matrix_build_with (f->fc, qv_nonanalytic_add, na, q, d);
+  assert_int_equal (LAPACKE_zheev (LAPACK_COL_MAJOR, 'V', 'U', 6, d, 6, w), 0);
+  /* the branch the term moves most: the longitudinal optic one */
+  for (gsize b = 0; b < 6; b++)
+    if (fabs (w[b] - plain_set->eigenvalues[b]) > moved)
+      {
+        moved = fabs (w[b] - plain_set->eigenvalues[b]);
+        lo = b;
+      }
+  assert_true (moved > 1e-3 * fabs (w[5]));
+  {
+    QvFrozenRequest rq = { { q[0], q[1], q[2] }, lo, 0.05, QV_FROZEN_LARGEST, 0.3 };
+    plain = qv_frozen_phonon_new (f->fc, map6, sc6, &rq, NULL);
+    none = qv_frozen_phonon_new_with (f->fc, NULL, NULL, map6, sc6, &rq, NULL);
+    with = qv_frozen_phonon_new_with (f->fc, qv_nonanalytic_add, na, map6, sc6, &rq, NULL);
+  }
+  assert_non_null (plain);
+  assert_non_null (with);
+  /* no term: _new's pattern, bit for bit */
+  assert_memory_equal (plain->displacements, none->displacements, 3 * plain->n_atoms * sizeof (double));
+  /* with the term: LAPACK's eigenvalue of D + D^NA and the same vector up
+   * to a phase, |<e_lapack|e_used>| = 1 */
+  assert_true (fabs (w[lo] - with->eigenvalue) < 1e-9 * fabs (w[5]));
+  for (int r = 0; r < 6; r++)
+    dot += conj (d[r + (int) lo * 6]) * with->vector[r];
+  assert_true (fabs (cabs (dot) - 1) < 1e-9);
+}
+
+/* The smallest diagonal supercell for a q: denominators per component. */
+static void
+test_diagonal_supercell (void **state)
+{
+  int m[3][3];
+  const double q[3] = { 0.5, 0.25, 2.0 / 3 }, bad[3] = { 0.1234567, 0, 0 };
+  GError *error = NULL;
+  (void) state;
+
+  assert_true (qv_frozen_phonon_diagonal_supercell (q, 12, m, NULL));
+  assert_int_equal (m[0][0], 2);
+  assert_int_equal (m[1][1], 4);
+  assert_int_equal (m[2][2], 3);
+  assert_int_equal (m[0][1], 0);
+  assert_true (qv_frozen_phonon_commensurate (m, q, NULL));
+  assert_false (qv_frozen_phonon_diagonal_supercell (bad, 12, m, &error));
+  assert_true (g_error_matches (error, QV_ERROR, QV_ERROR_USAGE));
+  g_clear_error (&error);
+}
+
 int
 main (void)
 {
@@ -284,6 +358,8 @@ main (void)
     cmocka_unit_test_setup_teardown (test_read_back, setup, teardown),
     cmocka_unit_test_setup_teardown (test_amplitude_q, setup, teardown),
     cmocka_unit_test_setup_teardown (test_refused, setup, teardown),
+    cmocka_unit_test_setup_teardown (test_with_nonanalytic, setup, teardown),
+    cmocka_unit_test (test_diagonal_supercell),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
