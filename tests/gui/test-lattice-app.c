@@ -385,7 +385,7 @@ test_molecule_has_no_lattice (void **state)
     GtkWidget *pane = GTK_WIDGET (qv_window_get_lattice_pane (window));
     GtkStack *stack = GTK_STACK (gtk_widget_get_ancestor (pane, GTK_TYPE_STACK));
     GtkStackPage *page = gtk_stack_get_page (stack, pane);
-    assert_false (gtk_stack_page_get_visible (page));
+    assert_false (gtk_stack_page_get_visible (page) && qv_window_get_side_switcher_visible (window));
   }
   gtk_window_destroy (GTK_WINDOW (window));
 }
