@@ -44,6 +44,10 @@ struct _QvWindow
   GtkWidget *side_switcher;
   GtkStack *side_stack;
   QvLatticePane *lattice_pane;
+  GtkStackPage *modes_page;
+  GtkStackPage *lattice_page;
+  GtkStackPage *thermo_page;
+  QvThermoPanel *thermo_panel;
 
   QvDocument *document;
   gboolean lattice_shown;      /* the view shows a lattice mode's replica */
@@ -206,7 +210,14 @@ setup_lattice (QvWindow *self)
 
   self->lattice_shown = FALSE;
   qv_lattice_pane_set_document (self->lattice_pane, self->document);
-  gtk_widget_set_visible (self->side_switcher, crystal);
+  /* A crystal's switcher shows its lattice and supercell modes; a
+   * molecule's its modes and thermochemistry. */
+  qv_thermo_panel_set_document (self->thermo_panel, self->document);
+  qv_thermo_panel_set_selected (self->thermo_panel, qv_mode_panel_get_selected (self->mode_panel));
+  gtk_stack_page_set_visible (self->lattice_page, crystal);
+  gtk_stack_page_set_visible (self->thermo_page, !crystal);
+  gtk_stack_page_set_title (self->modes_page, crystal ? _("Supercell Modes") : _("Modes"));
+  gtk_widget_set_visible (self->side_switcher, TRUE);
   if (l != NULL && l->bands != NULL)
     {
       const gsize k = l->sampling->n_labels > 1 ? l->sampling->label_index[1] : 0;
@@ -294,6 +305,7 @@ qv_window_set_document (QvWindow *self, QvDocument *doc)
     {
       self->lattice_shown = FALSE;
       qv_lattice_pane_set_document (self->lattice_pane, NULL);
+      qv_thermo_panel_set_document (self->thermo_panel, NULL);
       gtk_stack_set_visible_child_name (self->stack, "welcome");
       update_title (self);
       qv_window_actions_update (self);
@@ -796,6 +808,20 @@ atom_activated (QvModeView *view, guint atom, double x, double y, gpointer data)
   qv_window_show_atom (QV_WINDOW (data), atom, x, y);
 }
 
+/* A row of the thermochemistry table was chosen; the table follows the
+ * mode list's selection. */
+static void
+thermo_mode_activated (QvThermoPanel *panel, int mode, gpointer data)
+{
+  qv_mode_panel_select (QV_WINDOW (data)->mode_panel, mode);
+}
+
+static void
+thermo_follow_selection (QvWindow *self)
+{
+  qv_thermo_panel_set_selected (self->thermo_panel, qv_mode_panel_get_selected (self->mode_panel));
+}
+
 /* A peak of the spectrum was clicked. */
 static void
 spectrum_mode_activated (QvSpectrumView *view, int mode, gpointer data)
@@ -915,6 +941,7 @@ qv_window_class_init (QvWindowClass *klass)
   g_type_ensure (QV_TYPE_MOTION_BAR);
   g_type_ensure (QV_TYPE_MODE_PANEL);
   g_type_ensure (QV_TYPE_LATTICE_PANE);
+  g_type_ensure (QV_TYPE_THERMO_PANEL);
   g_type_ensure (QV_TYPE_MODE_DETAIL);
   g_type_ensure (QV_TYPE_EXPORT_PANE);
   g_type_ensure (QV_TYPE_SPECTRUM_VIEW);
@@ -942,6 +969,10 @@ qv_window_class_init (QvWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, QvWindow, side_switcher);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, side_stack);
   gtk_widget_class_bind_template_child (widget_class, QvWindow, lattice_pane);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, modes_page);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, lattice_page);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, thermo_page);
+  gtk_widget_class_bind_template_child (widget_class, QvWindow, thermo_panel);
 }
 
 static void
@@ -999,6 +1030,9 @@ qv_window_init (QvWindow *self)
   g_signal_connect_object (self->side_stack, "notify::visible-child", G_CALLBACK (side_page_changed), self,
                            G_CONNECT_SWAPPED);
   g_object_bind_property (self->prefs, "wavenumber-unit", self->lattice_pane, "unit", G_BINDING_SYNC_CREATE);
+  g_signal_connect_object (self->thermo_panel, "mode-activated", G_CALLBACK (thermo_mode_activated), self, 0);
+  g_signal_connect_object (self->mode_panel, "notify::selected", G_CALLBACK (thermo_follow_selection), self,
+                           G_CONNECT_SWAPPED);
   play_changed (self);
 
   self->atom_popover = qv_atom_popover_new ();
@@ -1035,6 +1069,7 @@ QvModeDetail *qv_window_get_mode_detail (QvWindow *self) { return self->mode_det
 QvSpectrumView *qv_window_get_spectrum_view (QvWindow *self) { return self->spectrum_view; }
 GtkRevealer *qv_window_get_spectrum_revealer (QvWindow *self) { return self->spectrum_revealer; }
 QvLatticePane *qv_window_get_lattice_pane (QvWindow *self) { return self->lattice_pane; }
+QvThermoPanel *qv_window_get_thermo_panel (QvWindow *self) { return self->thermo_panel; }
 const char *qv_window_get_side_page (QvWindow *self) { return gtk_stack_get_visible_child_name (self->side_stack); }
 gboolean qv_window_get_side_switcher_visible (QvWindow *self) { return gtk_widget_get_visible (self->side_switcher); }
 

@@ -11,6 +11,7 @@
 #include "qv-motion-bar.h"
 #include "qv-mode-detail.h"
 #include "qv-spectrum-view.h"
+#include "qv-thermo-panel.h"
 
 G_BEGIN_DECLS
 
@@ -60,6 +61,9 @@ QvLatticePane *qv_window_get_lattice_pane (QvWindow *self);
 const char *qv_window_get_side_page (QvWindow *self);
 void qv_window_show_side_page (QvWindow *self, const char *name);
 gboolean qv_window_get_side_switcher_visible (QvWindow *self);
+/* A molecule's Thermochemistry page ("thermo"; hidden for crystals, whose
+ * thermal properties are on the lattice page). */
+QvThermoPanel *qv_window_get_thermo_panel (QvWindow *self);
 GtkRevealer *qv_window_get_spectrum_revealer (QvWindow *self);
 /* The error dialog on screen, or NULL. */
 GtkWindow *qv_window_get_error_dialog (QvWindow *self);
