@@ -96,6 +96,7 @@ qv_app_actions_install (QvApplication *app)
   };
   static const struct { const char *action; const char *accels[3]; } accels[] = {
     { "app.open", { "<Control>o", NULL } },
+    { "win.save-bundle", { "<Control>s", NULL } },
     { "app.quit", { "<Control>q", NULL } },
     { "app.preferences", { "<Control>comma", NULL } },
     { "win.show-help-overlay", { "<Control>question", NULL } },

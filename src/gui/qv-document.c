@@ -26,6 +26,11 @@ struct _QvDocument
   QvDocumentSource *source; /* what was read, NULL when built in memory */
   QvDocumentLattice *lattice; /* a crystal's lattice dynamics, or NULL */
   char *lattice_note;       /* why a crystal has none, or NULL */
+  /* saving: what was read that the modes do not keep, and the saved state */
+  QvInputCrystal *crystal;  /* a bundle's "crystal", or NULL */
+  QvBundleView saved_view;  /* as read from a bundle, or as last saved */
+  QvStructure *saved;       /* masses as loaded or last saved */
+  char *bundle_path;        /* the bundle read or last written, or NULL */
 };
 
 G_DEFINE_FINAL_TYPE (QvDocument, qv_document, G_TYPE_OBJECT)
@@ -120,6 +125,9 @@ qv_document_finalize (GObject *object)
   g_clear_pointer (&self->source, qv_document_source_free);
   g_clear_pointer (&self->lattice, qv_document_lattice_free);
   g_free (self->lattice_note);
+  g_clear_pointer (&self->crystal, qv_input_crystal_free);
+  g_clear_pointer (&self->saved, qv_structure_free);
+  g_free (self->bundle_path);
   G_OBJECT_CLASS (qv_document_parent_class)->finalize (object);
 }
 
@@ -257,6 +265,7 @@ document_new (const char *name, const char *path, QvStructure *structure,
   doc->name = g_strdup (name);
   doc->path = g_strdup (path);
   doc->original = qv_structure_copy (structure);
+  doc->saved = qv_structure_copy (structure);
   doc->structure = structure;
   doc->hessian = hessian;
   doc->modes = modes;
@@ -396,6 +405,11 @@ load_work (LoadData *d, GTask *task, const QvInputOptions *options, const QvProg
   if (!d->source->demo && !d->source->hessian && input->hessian_source
       && g_file_test (input->hessian_source, G_FILE_TEST_IS_REGULAR))
     doc->source->bundle_hessian = g_strdup (input->hessian_source);
+  /* what a save needs again (qv-document-save.h) */
+  doc->crystal = g_steal_pointer (&input->crystal);
+  doc->saved_view = input->view;
+  if (!d->source->demo && d->source->geometry && qv_input_is_bundle (d->source->geometry))
+    doc->bundle_path = g_strdup (d->source->geometry);
   g_task_return_pointer (task, doc, g_object_unref);
 }
 
@@ -567,4 +581,40 @@ const char *
 qv_document_get_lattice_note (QvDocument *doc)
 {
   return doc->lattice_note;
+}
+
+/* ---- saving ---- */
+
+const QvHessian *qv_document_get_hessian (QvDocument *doc) { return doc->hessian; }
+const QvInputCrystal *qv_document_get_crystal (QvDocument *doc) { return doc->crystal; }
+const QvBundleView *qv_document_get_saved_view (QvDocument *doc) { return &doc->saved_view; }
+const char *qv_document_get_bundle_path (QvDocument *doc) { return doc->bundle_path; }
+
+QvMassModel
+qv_document_get_mass_model (QvDocument *doc)
+{
+  return doc->source ? doc->source->mass_model : QV_MASS_ISOTOPIC;
+}
+
+gboolean
+qv_document_get_masses_unsaved (QvDocument *doc)
+{
+  for (gsize a = 0; a < doc->structure->n_atoms; a++)
+    if (doc->structure->atoms[a].mass != doc->saved->atoms[a].mass)
+      return TRUE;
+  return FALSE;
+}
+
+void
+qv_document_mark_saved (QvDocument *doc, const char *bundle_path, const QvBundleView *view)
+{
+  g_clear_pointer (&doc->saved, qv_structure_free);
+  doc->saved = qv_structure_copy (doc->structure);
+  if (bundle_path != doc->bundle_path)
+    {
+      g_free (doc->bundle_path);
+      doc->bundle_path = g_strdup (bundle_path);
+    }
+  if (view)
+    doc->saved_view = *view;
 }

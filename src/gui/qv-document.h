@@ -115,4 +115,26 @@ void qv_document_worker_release (void);
 
 gboolean qv_document_solve_finish (QvDocument *doc, GAsyncResult *result, GError **error);
 
+/* ---- saving (qv-document-save.h) ---- */
+
+/* The Hessian as read (eV/Å², never symmetrised in place), or NULL for
+ * precomputed modes. */
+const QvHessian *qv_document_get_hessian (QvDocument *doc);
+/* A bundle's "crystal" as read (NULL otherwise). */
+const QvInputCrystal *qv_document_get_crystal (QvDocument *doc);
+/* The mass model the input asked for (isotopic for a document built in
+ * memory). */
+QvMassModel qv_document_get_mass_model (QvDocument *doc);
+/* The view as the bundle gave it when read, or as it was last saved
+ * (present FALSE when neither). */
+const QvBundleView *qv_document_get_saved_view (QvDocument *doc);
+/* The bundle the document was read from or last saved to, or NULL (the
+ * demo, a geometry with its Hessian, a document built in memory). */
+const char *qv_document_get_bundle_path (QvDocument *doc);
+/* TRUE when some mass differs from the masses as loaded or last saved. */
+gboolean qv_document_get_masses_unsaved (QvDocument *doc);
+/* After a save to @bundle_path with @view: the masses in use and @view
+ * become the saved state. */
+void qv_document_mark_saved (QvDocument *doc, const char *bundle_path, const QvBundleView *view);
+
 G_END_DECLS

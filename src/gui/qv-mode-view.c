@@ -61,6 +61,8 @@ struct _QvModeView
   QvRenderer *renderer;
   QvCamera camera;
 #endif
+  double fit_distance;        /* the camera's distance at the last fit, 0 before */
+  double zoom_after_fit;      /* × the fitted frame at the next fit (1) */
 };
 
 G_DEFINE_FINAL_TYPE (QvModeView, qv_mode_view, GTK_TYPE_WIDGET)
@@ -142,6 +144,9 @@ fit_camera (QvModeView *self)
   camera_viewport (self);
   /* Padding: the largest drawn radius and room for the motion. */
   qv_camera_fit (&self->camera, points, n, 1.5f);
+  self->fit_distance = self->camera.distance;
+  self->camera.distance = (float) (self->fit_distance / self->zoom_after_fit);
+  self->zoom_after_fit = 1.0;
   self->fit_pending = FALSE;
 }
 
@@ -553,11 +558,49 @@ qv_mode_view_view_along (QvModeView *self, int axis)
 void
 qv_mode_view_reset (QvModeView *self)
 {
+  self->zoom_after_fit = 1.0;
 #ifdef QV_GUI_HAVE_RENDERER
   qv_camera_init (&self->camera);
   self->options_dirty = TRUE;
 #endif
   self->fit_pending = TRUE;
+  redraw (self);
+}
+
+void
+qv_mode_view_set_orientation (QvModeView *self, const double q[4])
+{
+#ifdef QV_GUI_HAVE_RENDERER
+  const double norm = sqrt (q[0] * q[0] + q[1] * q[1] + q[2] * q[2] + q[3] * q[3]);
+  if (!(norm > 1e-6))
+    return;
+  for (int i = 0; i < 4; i++)
+    self->camera.orientation[i] = (float) (q[i] / norm);
+#endif
+  redraw (self);
+}
+
+double
+qv_mode_view_get_zoom (QvModeView *self)
+{
+#ifdef QV_GUI_HAVE_RENDERER
+  if (!self->fit_pending && self->fit_distance > 0.0 && self->camera.distance > 0.0f)
+    return self->fit_distance / self->camera.distance;
+#endif
+  return self->zoom_after_fit;
+}
+
+void
+qv_mode_view_set_zoom (QvModeView *self, double zoom)
+{
+  if (!(zoom > 0.0) || !isfinite (zoom))
+    return;
+#ifdef QV_GUI_HAVE_RENDERER
+  if (!self->fit_pending && self->fit_distance > 0.0)
+    self->camera.distance = (float) (self->fit_distance / zoom);
+  else
+#endif
+    self->zoom_after_fit = zoom;
   redraw (self);
 }
 
@@ -867,6 +910,7 @@ qv_mode_view_init (QvModeView *self)
   self->speed = 0.6;
   self->show_arrows = TRUE;
   self->highlight = -1;
+  self->zoom_after_fit = 1.0;
 #ifdef QV_GUI_HAVE_RENDERER
   qv_camera_init (&self->camera);
 #endif

@@ -52,6 +52,13 @@ void qv_mode_view_set_highlight (QvModeView *self, gssize atom);
 /* The camera as the view draws it now, for a picture of the same view
  * (its viewport is the view's); FALSE in a build without the renderer. */
 gboolean qv_mode_view_get_camera (QvModeView *self, QvCamera *camera);
+/* The camera's rotation (a quaternion x, y, z, w: world → view, normalised
+ * here), and the zoom as a factor of the fitted frame (1: fitted; a zoom
+ * set before the structure is fitted applies at the fit). For a bundle's
+ * "view" (qv-document-save.h). */
+void qv_mode_view_set_orientation (QvModeView *self, const double q[4]);
+double qv_mode_view_get_zoom (QvModeView *self);
+void qv_mode_view_set_zoom (QvModeView *self, double zoom);
 
 /* The atom drawn under widget point (x, y) at the current phase, or −1.
  * Signal "atom-activated" (guint atom, double x, double y) on a click. */

@@ -1,12 +1,14 @@
 /* qv-window-actions.c — win.play, win.next-mode, win.previous-mode,
  * win.toggle-arrows, win.toggle-participation, win.toggle-orthographic,
  * win.view-along-x/y/z (and -minus-), win.reset-view, win.toggle-export-pane,
- * win.toggle-spectrum, win.compare, win.reset-masses, win.level-up/down, win.cancel, win.open-recent, win.close.
+ * win.toggle-spectrum, win.compare, win.reset-masses, win.level-up/down, win.cancel, win.open-recent, win.close,
+ * win.save-bundle.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "qv-camera.h"
 #include "qv-preferences.h"
 #include "qv-window-actions.h"
 #include "qv-window-private.h"
+#include "qv-window-save.h"
 
 static void
 next_mode (GSimpleAction *a, GVariant *p, gpointer win)
@@ -81,6 +83,12 @@ compare (GSimpleAction *a, GVariant *p, gpointer win)
 }
 
 static void
+save_bundle (GSimpleAction *a, GVariant *p, gpointer win)
+{
+  qv_window_save_choose (win);
+}
+
+static void
 close_window (GSimpleAction *a, GVariant *p, gpointer win)
 {
   gtk_window_close (win);
@@ -91,6 +99,7 @@ static const char *const document_actions[] = {
   "play", "next-mode", "previous-mode", "view-along-x", "view-along-y", "view-along-z",
   "view-along-minus-x", "view-along-minus-y", "view-along-minus-z", "reset-view",
   "level-up", "level-down", "toggle-export-pane", "toggle-spectrum", "compare",
+  "save-bundle",
 };
 
 void
@@ -113,6 +122,7 @@ qv_window_actions_install (QvWindow *self)
     { "open-recent", open_recent, "s" },
     { "close", close_window },
     { "compare", compare },
+    { "save-bundle", save_bundle },
   };
   QvPreferences *prefs = qv_preferences_get_default ();
   static const struct { const char *action; const char *property; } toggles[] = {

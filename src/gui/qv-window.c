@@ -15,6 +15,8 @@
 #include "qv-window.h"
 #include "qv-window-actions.h"
 #include "qv-window-private.h"
+#include "qv-document-save.h"
+#include "qv-window-save.h"
 
 struct _QvWindow
 {
@@ -325,6 +327,8 @@ qv_window_set_document (QvWindow *self, QvDocument *doc)
   qv_window_actions_update (self);
   qv_export_pane_update (self->export_pane);
   gtk_widget_grab_focus (GTK_WIDGET (self->mode_panel));
+  /* a bundle's saved view, and the view shown as the saved state */
+  qv_document_save_restore_view (self);
 }
 
 /* ---- jobs: progress strip, cancel ---- */
@@ -881,6 +885,9 @@ qv_window_close_request (GtkWindow *window)
   QvWindow *self = QV_WINDOW (window);
   int width, height;
 
+  /* unsaved masses or view: ask first (qv-window-save.h) */
+  if (qv_window_save_close_request (self))
+    return TRUE;
   qv_window_cancel (self);
   gtk_window_get_default_size (window, &width, &height);
   g_object_set (self->prefs,
