@@ -118,7 +118,7 @@ report_ticks (const char *what, GArray *t)
 
 /* A drag across the view by the X server's test extension: xdotool moves
  * the pointer to the view's centre, presses button 1, moves by @steps
- * steps of 6 px every 10 ms, releases. */
+ * steps of 1 px right (and ±1 px up and down) every 10 ms, releases. */
 static GSubprocess *
 start_drag (QvWindow *window, int steps)
 {
@@ -138,7 +138,7 @@ start_drag (QvWindow *window, int steps)
   g_ptr_array_add (argv, g_strdup ("mousemove"));
   g_ptr_array_add (argv, g_strdup ("--window"));
   g_ptr_array_add (argv, g_strdup_printf ("%lu", (unsigned long) gdk_x11_surface_get_xid (surface)));
-  g_ptr_array_add (argv, g_strdup_printf ("%d", (int) (at.x + sx - 3.0 * steps / 4)));
+  g_ptr_array_add (argv, g_strdup_printf ("%d", (int) (at.x + sx - steps / 2.0)));
   g_ptr_array_add (argv, g_strdup_printf ("%d", (int) (at.y + sy)));
   g_ptr_array_add (argv, g_strdup ("mousedown"));
   g_ptr_array_add (argv, g_strdup ("1"));
@@ -148,7 +148,7 @@ start_drag (QvWindow *window, int steps)
       g_ptr_array_add (argv, g_strdup ("0.01"));
       g_ptr_array_add (argv, g_strdup ("mousemove_relative"));
       g_ptr_array_add (argv, g_strdup ("--"));
-      g_ptr_array_add (argv, g_strdup (i % 100 < 50 ? "3" : "-3"));
+      g_ptr_array_add (argv, g_strdup ("1"));
       g_ptr_array_add (argv, g_strdup (i % 50 < 25 ? "1" : "-1"));
     }
   g_ptr_array_add (argv, g_strdup ("mouseup"));
@@ -157,10 +157,17 @@ start_drag (QvWindow *window, int steps)
   return g_subprocess_newv ((const char *const *) argv->pdata, G_SUBPROCESS_FLAGS_NONE, NULL);
 }
 
-static gboolean
-subprocess_done (gpointer data)
+static void
+drag_ended (GObject *source, GAsyncResult *result, gpointer data)
 {
-  return g_subprocess_get_if_exited (data) || g_subprocess_get_if_signaled (data);
+  g_subprocess_wait_finish (G_SUBPROCESS (source), result, NULL);
+  *(gboolean *) data = TRUE;
+}
+
+static gboolean
+flag_set (gpointer data)
+{
+  return *(gboolean *) data;
 }
 
 /* Rotates for about @seconds; returns frames per second. */
@@ -168,7 +175,7 @@ static double
 rotate (QvWindow *window, Recorder *r, double seconds, const char **how)
 {
   QvModeView *view = qv_window_get_mode_view (window);
-  const int steps = (int) (seconds * 100.0);
+  const int steps = MIN ((int) (seconds * 100.0), gtk_widget_get_width (GTK_WIDGET (view)) - 40);
   g_autoptr(GSubprocess) drag = start_drag (window, steps);
   guint before = qv_mode_view_get_frames (view);
   gint64 start = g_get_monotonic_time (), end;
@@ -182,8 +189,9 @@ rotate (QvWindow *window, Recorder *r, double seconds, const char **how)
       *how = "mouse drag (xdotool)";
       /* xdotool sleeps at least 10 ms per step: the drag takes longer than
        * @seconds when the machine is loaded; wait for it */
-      g_subprocess_wait_async (drag, NULL, NULL, NULL);
-      qvg_wait (subprocess_done, drag, 10.0 * seconds + 30.0);
+      gboolean ended = FALSE;
+      g_subprocess_wait_async (drag, NULL, drag_ended, &ended);
+      qvg_wait (flag_set, &ended, 10.0 * seconds + 30.0);
     }
   else
     {
