@@ -1449,6 +1449,15 @@ read_modes (Reader *r, JsonNode *node, const QvStructure *s)
       if (!read_number (r, json_array_get_element (w, (guint) k), "modes.wavenumbers",
                         (gssize) k, &wavenumbers[k]))
         return NULL;
+      /* Its square, the eigenvalue, must stay finite; no vibration comes
+       * near this bound (the highest molecular one is about 4400 cm⁻¹). */
+      if (fabs (wavenumbers[k]) > QV_BUNDLE_MAX_WAVENUMBER)
+        {
+          g_autofree char *at = path_index ("modes.wavenumbers", k);
+          fail (r, at, "%g cm⁻¹ is beyond any vibration (at most %g cm⁻¹ in magnitude); "
+                "is it in cm⁻¹?", wavenumbers[k], QV_BUNDLE_MAX_WAVENUMBER);
+          return NULL;
+        }
       if (!read_numbers (r, json_array_get_element (d, (guint) k), where, n_dim, what,
                          &displacements[k * n_dim]))
         return NULL;

@@ -14,6 +14,8 @@ G_BEGIN_DECLS
 #define QV_BUNDLE_MAX_DEPTH 64
 /* Largest Hessian dimension stored inline; beyond it, a file beside the bundle. */
 #define QV_BUNDLE_MAX_INLINE_N 600
+/* The largest |wavenumber| (cm⁻¹) a bundle's precomputed modes may give. */
+#define QV_BUNDLE_MAX_WAVENUMBER 1e6
 
 /* The view a bundle keeps so that pictures can be made again ("view";
  * every member optional). */

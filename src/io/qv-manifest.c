@@ -357,7 +357,8 @@ qv_manifest_to_json (const QvManifest *m)
               const QvManifestAmplitude *a = &g_array_index (fr->amplitudes, QvManifestAmplitude, k);
               qv_json_begin_object (w, NULL);
               qv_json_int (w, "mode", a->mode);
-              qv_json_number (w, "wavenumber", a->wavenumber);
+              if (!isnan (a->wavenumber))   /* optional: absent when read absent */
+                qv_json_number (w, "wavenumber", a->wavenumber);
               qv_json_number (w, "q", a->q);          /* null when undefined */
               qv_json_number (w, "Q", a->Q);
               qv_json_number (w, "max_displacement", a->max_displacement);
