@@ -13,9 +13,11 @@
 #include "qv-error.h"
 #include "qv-output.h"
 #include "qv-png-writer.h"
+#include "qv-preferences.h"
 #include "qv-thermo-panel.h"
 #include "qv-thermochem-plot.h"
 #include "qv-thermochem-table.h"
+#include "qv-units.h"
 
 /* ---- one row of the table ---- */
 
@@ -88,6 +90,7 @@ struct _QvThermoPanel
 
   GtkWidget *box;
   GtkWidget *controls_grid;
+  QvFrequencyUnit unit;        /* of the wavenumber columns (the list's) */
   GtkSpinButton *temperature_spin;
   GtkDropDown *state_dropdown;
   GtkWidget *pressure_label;
@@ -155,6 +158,7 @@ enum {
   PROP_OMEGA0,
   PROP_SYMMETRY_NUMBER,
   PROP_FREQUENCY_SCALE,
+  PROP_UNIT,
   N_PROPS
 };
 static GParamSpec *props[N_PROPS];
@@ -251,6 +255,24 @@ quantity_of (const QvGasTerm *t, guint quantity)
     }
 }
 
+/* A wavenumber (cm⁻¹) in the list's unit, with the digits the mode list
+ * gives that unit plus one (the table is read for small differences). */
+static char *
+format_frequency (QvThermoPanel *self, double wavenumber, gboolean imaginary)
+{
+  const double value = fabs (qv_frequency_from_wavenumber (wavenumber, self->unit));
+  const int digits = self->unit == QV_FREQUENCY_CM1 ? 2 : self->unit == QV_FREQUENCY_THZ ? 4 : 3;
+
+  return g_strdup_printf ("%.*f%s", digits, value, imaginary ? "i" : "");
+}
+
+static const char *
+unit_title (QvFrequencyUnit unit)
+{
+  /* TRANSLATORS: the per-mode table's wavenumber column title, per unit */
+  return unit == QV_FREQUENCY_THZ ? _("THz") : unit == QV_FREQUENCY_MEV ? _("meV") : _("cm⁻¹");
+}
+
 static char *
 format_cell (QvThermoPanel *self, QvThermoRow *row, QvThermoColumn column)
 {
@@ -261,7 +283,7 @@ format_cell (QvThermoPanel *self, QvThermoRow *row, QvThermoColumn column)
     case QV_THERMO_COLUMN_INDEX:
       return g_strdup_printf ("%u", row->mode + 1);
     case QV_THERMO_COLUMN_WAVENUMBER:
-      return g_strdup_printf (row->imaginary ? "%.2fi" : "%.2f", fabs (v[column]));
+      return format_frequency (self, v[column], row->imaginary);
     default:
       break;
     }
@@ -276,7 +298,7 @@ format_cell (QvThermoPanel *self, QvThermoRow *row, QvThermoColumn column)
       if (self->options.soft_modes == QV_SOFT_MODES_QUASI_RRHO)
         return g_strdup_printf ("%.3f", v[column]);
       if (self->options.soft_modes == QV_SOFT_MODES_RAISE)
-        return g_strdup_printf ("%.2f", v[column]);
+        return format_frequency (self, v[column], FALSE);
       return g_strdup ("");
     default: return g_strdup_printf ("%.3f", v[column]);
     }
@@ -431,6 +453,17 @@ update_rows (QvThermoPanel *self)
   if (sorter)
     gtk_sorter_changed (sorter, GTK_SORTER_CHANGE_DIFFERENT);
   self->updating = FALSE;
+}
+
+static void
+set_unit (QvThermoPanel *self, QvFrequencyUnit unit)
+{
+  if (self->unit == unit)
+    return;
+  self->unit = unit;
+  gtk_column_view_column_set_title (self->columns[QV_THERMO_COLUMN_WAVENUMBER], unit_title (unit));
+  update_rows (self);
+  g_object_notify_by_pspec (G_OBJECT (self), props[PROP_UNIT]);
 }
 
 static void
@@ -1279,6 +1312,7 @@ qv_thermo_panel_get_property (GObject *object, guint id, GValue *value, GParamSp
     case PROP_OMEGA0: g_value_set_double (value, self->omega0); break;
     case PROP_SYMMETRY_NUMBER: g_value_set_uint (value, (guint) gtk_spin_button_get_value_as_int (self->sigma_spin)); break;
     case PROP_FREQUENCY_SCALE: g_value_set_double (value, gtk_spin_button_get_value (self->scale_spin)); break;
+    case PROP_UNIT: g_value_set_enum (value, (int) self->unit); break;
     default: G_OBJECT_WARN_INVALID_PROPERTY_ID (object, id, pspec);
     }
 }
@@ -1306,6 +1340,7 @@ qv_thermo_panel_set_property (GObject *object, guint id, const GValue *value, GP
       break;
     case PROP_SYMMETRY_NUMBER: gtk_spin_button_set_value (self->sigma_spin, g_value_get_uint (value)); break;
     case PROP_FREQUENCY_SCALE: gtk_spin_button_set_value (self->scale_spin, g_value_get_double (value)); break;
+    case PROP_UNIT: set_unit (self, (QvFrequencyUnit) g_value_get_enum (value)); break;
     default: G_OBJECT_WARN_INVALID_PROPERTY_ID (object, id, pspec);
     }
 }
@@ -1359,6 +1394,9 @@ qv_thermo_panel_class_init (QvThermoPanelClass *klass)
   props[PROP_OMEGA0] = g_param_spec_double ("omega0", NULL, NULL, 1, 1000, QV_GAS_QRRHO_OMEGA0, rw);
   props[PROP_SYMMETRY_NUMBER] = g_param_spec_uint ("symmetry-number", NULL, NULL, 1, 1000, 1, rw);
   props[PROP_FREQUENCY_SCALE] = g_param_spec_double ("frequency-scale", NULL, NULL, 0.5, 1.5, 1, rw);
+  /* The unit of the wavenumber columns (the window binds the list's). */
+  props[PROP_UNIT] = g_param_spec_enum ("unit", NULL, NULL, QV_TYPE_FREQUENCY_UNIT,
+                                        QV_FREQUENCY_CM1, rw);
   g_object_class_install_properties (object_class, N_PROPS, props);
   /* A row of the table was chosen: its mode (0-based, the mode list's). */
   signals[MODE_ACTIVATED] = g_signal_new ("mode-activated", G_TYPE_FROM_CLASS (klass),
@@ -1471,7 +1509,7 @@ qv_thermo_panel_init (QvThermoPanel *self)
 
   build_summary (self);
   add_column (self, QV_THERMO_COLUMN_INDEX, _("#"));
-  add_column (self, QV_THERMO_COLUMN_WAVENUMBER, _("cm⁻¹"));
+  add_column (self, QV_THERMO_COLUMN_WAVENUMBER, unit_title (self->unit));
   add_column (self, QV_THERMO_COLUMN_ENTROPY, _("S"));
   /* TRANSLATORS: column title: the mode's share of the vibrational entropy, percent */
   add_column (self, QV_THERMO_COLUMN_SHARE, _("S %"));

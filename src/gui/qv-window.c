@@ -1037,6 +1037,7 @@ qv_window_init (QvWindow *self)
   g_signal_connect_object (self->side_stack, "notify::visible-child", G_CALLBACK (side_page_changed), self,
                            G_CONNECT_SWAPPED);
   g_object_bind_property (self->prefs, "wavenumber-unit", self->lattice_pane, "unit", G_BINDING_SYNC_CREATE);
+  g_object_bind_property (self->prefs, "wavenumber-unit", self->thermo_panel, "unit", G_BINDING_SYNC_CREATE);
   g_signal_connect_object (self->thermo_panel, "mode-activated", G_CALLBACK (thermo_mode_activated), self, 0);
   g_signal_connect_object (self->mode_panel, "notify::selected", G_CALLBACK (thermo_follow_selection), self,
                            G_CONNECT_SWAPPED);

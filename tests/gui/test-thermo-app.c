@@ -20,6 +20,7 @@
 #include <string.h>
 #include "gui-test-util.h"
 #include "qv-error.h"
+#include "qv-preferences.h"
 #include "qv-thermochem-plot.h"
 
 /* Whether @child's page of the side panel's stack is offered. */
@@ -231,6 +232,22 @@ test_page_is_the_commands (void **state)
     assert_string_equal (cell, w);
     assert_true (qv_thermo_panel_cell_left_out (panel, 0, QV_THERMO_COLUMN_WAVENUMBER));
     assert_false (qv_thermo_panel_cell_left_out (panel, 1, QV_THERMO_COLUMN_WAVENUMBER));
+  }
+  /* The wavenumber column follows the list's unit (Preferences): in meV,
+   * 1 cm⁻¹ = h c / e = 0.123984198 meV (CODATA 2018, where h, c and e are
+   * exact). The window binds the preference to the page. */
+  {
+    const double mev = 1000.0 * 6.62607015e-34 * 299792458.0 * 100.0 / 1.602176634e-19;
+    g_autofree char *w = g_strdup_printf ("%.3fi", -json_object_get_double_member (root, "most_imaginary") * mev);
+    g_autofree char *cell = NULL;
+    g_object_set (qv_preferences_get_default (), "wavenumber-unit", QV_FREQUENCY_MEV, NULL);
+    cell = qv_thermo_panel_cell_text (panel, 0, QV_THERMO_COLUMN_WAVENUMBER);
+    assert_string_equal (cell, w);
+    g_object_set (qv_preferences_get_default (), "wavenumber-unit", QV_FREQUENCY_CM1, NULL);
+    g_clear_pointer (&cell, g_free);
+    cell = qv_thermo_panel_cell_text (panel, 0, QV_THERMO_COLUMN_WAVENUMBER);
+    assert_non_null (strstr (cell, "."));
+    assert_int_equal (strlen (strchr (cell, '.')), 4);   /* ".NNi": two decimals in cm⁻¹ */
   }
   gtk_window_destroy (GTK_WINDOW (window));
 }
