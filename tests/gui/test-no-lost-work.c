@@ -91,9 +91,19 @@ typedef struct {
   QvWindow *window;          /* weak: NULL once the window is gone */
 } Watch;
 
+/* The tests' one watch. Global, not on a test's stack: a window that has
+ * closed may be finalized only during a later test, and its weak pointer
+ * then clears this slot; on a stack it would write into a dead frame (or
+ * clear the next test's window). watch() moves the weak pointer. */
+static Watch the_watch;
+
 static void
 watch (Watch *w, QvWindow *window)
 {
+  /* A closed window may still be alive (out of the application's list,
+   * not yet finalized): its weak pointer must not clear the new one. */
+  if (w->window != NULL)
+    g_object_remove_weak_pointer (G_OBJECT (w->window), (gpointer *) &w->window);
   w->window = window;
   g_object_add_weak_pointer (G_OBJECT (window), (gpointer *) &w->window);
 }
@@ -144,62 +154,59 @@ destroy (Watch *w)
 static void
 test_no_question_without_changes (void **state)
 {
-  Watch w;
   g_autofree char *path = tmp_path ("unchanged.quaver.json");
   g_autoptr(GError) error = NULL;
 
-  watch (&w, demo_window ());
+  watch (&the_watch, demo_window ());
   /* a rotation of the demo is not work to keep: it lives in no bundle */
-  qv_window_view_along (w.window, QV_VIEW_ALONG_X);
-  assert_false (qv_document_save_has_unsaved (w.window));
-  assert_true (close_and_see (&w));
+  qv_window_view_along (the_watch.window, QV_VIEW_ALONG_X);
+  assert_false (qv_document_save_has_unsaved (the_watch.window));
+  assert_true (close_and_see (&the_watch));
 
   /* a bundle opened and closed untouched */
-  watch (&w, demo_window ());
-  assert_true (qv_document_save_write (w.window, path, FALSE, &error));
-  destroy (&w);
-  watch (&w, bundle_window (path));
-  assert_false (qv_document_save_has_unsaved (w.window));
-  assert_true (close_and_see (&w));
+  watch (&the_watch, demo_window ());
+  assert_true (qv_document_save_write (the_watch.window, path, FALSE, &error));
+  destroy (&the_watch);
+  watch (&the_watch, bundle_window (path));
+  assert_false (qv_document_save_has_unsaved (the_watch.window));
+  assert_true (close_and_see (&the_watch));
 }
 
 /* Edited masses: the question; Cancel keeps the window, Discard closes. */
 static void
 test_discard (void **state)
 {
-  Watch w;
 
-  watch (&w, demo_window ());
-  edit_mass (w.window);
-  assert_true (qv_document_save_has_unsaved (w.window));
-  assert_false (close_and_see (&w));
-  assert_true (qvg_wait (asked, &w, 5.0));
+  watch (&the_watch, demo_window ());
+  edit_mass (the_watch.window);
+  assert_true (qv_document_save_has_unsaved (the_watch.window));
+  assert_false (close_and_see (&the_watch));
+  assert_true (qvg_wait (asked, &the_watch, 5.0));
 
-  adw_message_dialog_response (qv_window_save_get_question (w.window), "cancel");
+  adw_message_dialog_response (qv_window_save_get_question (the_watch.window), "cancel");
   qvg_spin (0.2);
-  assert_non_null (w.window);
-  assert_null (qv_window_save_get_question (w.window));
-  assert_true (qv_document_get_masses_edited (qv_window_get_document (w.window)));
+  assert_non_null (the_watch.window);
+  assert_null (qv_window_save_get_question (the_watch.window));
+  assert_true (qv_document_get_masses_edited (qv_window_get_document (the_watch.window)));
 
   /* asked again, and this time discarded */
-  assert_false (close_and_see (&w));
-  assert_true (qvg_wait (asked, &w, 5.0));
-  adw_message_dialog_response (qv_window_save_get_question (w.window), "discard");
-  assert_true (qvg_wait (closed, &w, 5.0));
+  assert_false (close_and_see (&the_watch));
+  assert_true (qvg_wait (asked, &the_watch, 5.0));
+  adw_message_dialog_response (qv_window_save_get_question (the_watch.window), "discard");
+  assert_true (qvg_wait (closed, &the_watch, 5.0));
 }
 
 /* Masses reset to those loaded: nothing unsaved any more. */
 static void
 test_reset_is_not_unsaved (void **state)
 {
-  Watch w;
 
-  watch (&w, demo_window ());
-  edit_mass (w.window);
-  qv_window_reset_masses (w.window);
-  assert_true (qvg_wait (masses_as_loaded_and_idle, w.window, 60.0));
-  assert_false (qv_document_save_has_unsaved (w.window));
-  assert_true (close_and_see (&w));
+  watch (&the_watch, demo_window ());
+  edit_mass (the_watch.window);
+  qv_window_reset_masses (the_watch.window);
+  assert_true (qvg_wait (masses_as_loaded_and_idle, the_watch.window, 60.0));
+  assert_false (qv_document_save_has_unsaved (the_watch.window));
+  assert_true (close_and_see (&the_watch));
 }
 
 /* Save as Bundle… from the question: the bundle is written, the window
@@ -207,7 +214,6 @@ test_reset_is_not_unsaved (void **state)
 static void
 test_save_then_reopen (void **state)
 {
-  Watch w;
   g_autofree char *path = tmp_path ("edited.quaver.json");
   g_autoptr(GFile) file = g_file_new_for_path (path);
   const QvIsotope *deuterium = qv_isotope_lookup (1, 2);
@@ -216,32 +222,32 @@ test_save_then_reopen (void **state)
   gsize h;
 
   assert_non_null (deuterium);
-  watch (&w, demo_window ());
-  h = first_hydrogen (w.window);
-  edit_mass (w.window);
-  qv_mode_view_set_orientation (qv_window_get_mode_view (w.window), orientation);
-  qv_mode_view_set_zoom (qv_window_get_mode_view (w.window), 1.5);
-  qv_mode_panel_select (qv_window_get_mode_panel (w.window), 2);
+  watch (&the_watch, demo_window ());
+  h = first_hydrogen (the_watch.window);
+  edit_mass (the_watch.window);
+  qv_mode_view_set_orientation (qv_window_get_mode_view (the_watch.window), orientation);
+  qv_mode_view_set_zoom (qv_window_get_mode_view (the_watch.window), 1.5);
+  qv_mode_panel_select (qv_window_get_mode_panel (the_watch.window), 2);
   qvg_spin (0.1);
-  qv_document_save_current_view (w.window, &before);
+  qv_document_save_current_view (the_watch.window, &before);
 
-  assert_false (close_and_see (&w));
-  assert_true (qvg_wait (asked, &w, 5.0));
-  adw_message_dialog_response (qv_window_save_get_question (w.window), "save");
+  assert_false (close_and_see (&the_watch));
+  assert_true (qvg_wait (asked, &the_watch, 5.0));
+  adw_message_dialog_response (qv_window_save_get_question (the_watch.window), "save");
   qvg_spin (0.2);
-  assert_non_null (w.window);
-  assert_non_null (qv_window_save_get_chooser (w.window));
+  assert_non_null (the_watch.window);
+  assert_non_null (qv_window_save_get_chooser (the_watch.window));
   /* the chooser as a user would answer it */
   {
-    GtkFileChooser *chooser = GTK_FILE_CHOOSER (qv_window_save_get_chooser (w.window));
+    GtkFileChooser *chooser = GTK_FILE_CHOOSER (qv_window_save_get_chooser (the_watch.window));
     g_autoptr(GFile) folder = g_file_get_parent (file);
     assert_true (gtk_file_chooser_set_current_folder (chooser, folder, NULL));
     gtk_file_chooser_set_current_name (chooser, "edited.quaver.json");
     /* the chooser loads the folder before it answers with it */
     qvg_spin (1.0);
   }
-  g_signal_emit_by_name (qv_window_save_get_chooser (w.window), "response", GTK_RESPONSE_ACCEPT);
-  assert_true (qvg_wait (closed, &w, 10.0));
+  g_signal_emit_by_name (qv_window_save_get_chooser (the_watch.window), "response", GTK_RESPONSE_ACCEPT);
+  assert_true (qvg_wait (closed, &the_watch, 10.0));
   assert_true (g_file_test (path, G_FILE_TEST_IS_REGULAR));
 
   /* the bundle as the reader sees it */
@@ -257,59 +263,58 @@ test_save_then_reopen (void **state)
   }
 
   /* and as the app opens it again */
-  watch (&w, bundle_window (path));
+  watch (&the_watch, bundle_window (path));
   {
-    QvDocument *doc = qv_window_get_document (w.window);
+    QvDocument *doc = qv_window_get_document (the_watch.window);
     QvBundleView after;
     assert_true (qv_document_get_structure (doc)->atoms[h].mass == deuterium->mass);
     /* loaded so: not an edit of this document, nothing unsaved */
     assert_false (qv_document_get_masses_edited (doc));
-    assert_false (qv_document_save_has_unsaved (w.window));
-    assert_int_equal (qv_mode_panel_get_selected (qv_window_get_mode_panel (w.window)), 2);
+    assert_false (qv_document_save_has_unsaved (the_watch.window));
+    assert_int_equal (qv_mode_panel_get_selected (qv_window_get_mode_panel (the_watch.window)), 2);
     qvg_spin (0.2);
-    qv_document_save_current_view (w.window, &after);
+    qv_document_save_current_view (the_watch.window, &after);
     assert_false (qv_document_save_views_differ (&before, &after));
 
     /* a document in a bundle: a changed view is unsaved work */
-    qv_mode_panel_select (qv_window_get_mode_panel (w.window), 4);
-    assert_true (qv_document_save_has_unsaved (w.window));
-    assert_false (close_and_see (&w));
-    assert_true (qvg_wait (asked, &w, 5.0));
-    adw_message_dialog_response (qv_window_save_get_question (w.window), "cancel");
+    qv_mode_panel_select (qv_window_get_mode_panel (the_watch.window), 4);
+    assert_true (qv_document_save_has_unsaved (the_watch.window));
+    assert_false (close_and_see (&the_watch));
+    assert_true (qvg_wait (asked, &the_watch, 5.0));
+    adw_message_dialog_response (qv_window_save_get_question (the_watch.window), "cancel");
     qvg_spin (0.1);
     /* saved over (the chooser would have asked): nothing unsaved, no question */
     {
       g_autoptr(GError) error = NULL;
-      assert_true (qv_document_save_write (w.window, path, TRUE, &error));
+      assert_true (qv_document_save_write (the_watch.window, path, TRUE, &error));
     }
-    assert_false (qv_document_save_has_unsaved (w.window));
+    assert_false (qv_document_save_has_unsaved (the_watch.window));
   }
-  assert_true (close_and_see (&w));
+  assert_true (close_and_see (&the_watch));
 }
 
 /* An existing bundle is not replaced without consent. */
 static void
 test_no_overwrite (void **state)
 {
-  Watch w;
   g_autofree char *path = tmp_path ("exists.quaver.json");
   g_autofree char *contents = NULL;
   g_autoptr(GError) error = NULL;
 
   assert_true (g_file_set_contents (path, "someone's file", -1, NULL));
-  watch (&w, demo_window ());
-  assert_false (qv_document_save_write (w.window, path, FALSE, &error));
+  watch (&the_watch, demo_window ());
+  assert_false (qv_document_save_write (the_watch.window, path, FALSE, &error));
   assert_non_null (error);
   assert_true (g_file_get_contents (path, &contents, NULL, NULL));
   assert_string_equal (contents, "someone's file");
-  destroy (&w);
+  destroy (&the_watch);
 }
 
 /* app.quit asks every window with unsaved work and closes the others. */
 static void
 test_quit_asks (void **state)
 {
-  Watch clean, edited;
+  static Watch clean, edited;   /* not on the stack: see the_watch */
 
   watch (&clean, demo_window ());
   watch (&edited, demo_window ());
@@ -405,7 +410,6 @@ write_system (gsize n, guint32 seed, const char *xyz, const char *npy)
 static void
 test_cancel_anywhere (void **state)
 {
-  Watch w;
   g_autofree char *xyz = tmp_path ("large.xyz"), *npy = tmp_path ("large.npy");
   g_autofree char *small_xyz = tmp_path ("small.xyz"), *small_npy = tmp_path ("small.npy");
   QvDocumentSource source = { .geometry = xyz, .hessian = npy, .hessian_units = (char *) "eV/A^2" };
@@ -416,45 +420,45 @@ test_cancel_anywhere (void **state)
 
   write_system (1200, 11, xyz, npy);
   write_system (60, 12, small_xyz, small_npy);
-  watch (&w, demo_window ());
-  demo = qv_window_get_document (w.window);
+  watch (&the_watch, demo_window ());
+  demo = qv_window_get_document (the_watch.window);
   /* the new window's first frames (the GL driver's shaders) are drawn
    * before the clock starts */
   qvg_spin (1.0);
 
   /* at once: the worker is reading the files */
-  qv_window_open_source (w.window, &source);
-  { const double ms = cancel_now (w.window, "while reading"); worst = MAX (worst, ms); }
-  assert_ptr_equal (qv_window_get_document (w.window), demo);
+  qv_window_open_source (the_watch.window, &source);
+  { const double ms = cancel_now (the_watch.window, "while reading"); worst = MAX (worst, ms); }
+  assert_ptr_equal (qv_window_get_document (the_watch.window), demo);
 
   /* once the solver reports progress */
-  qv_window_open_source (w.window, &source);
-  assert_true (qvg_wait (solving, w.window, 120.0));
-  if (qv_window_is_busy (w.window))
-    { const double ms = cancel_now (w.window, "while solving"); worst = MAX (worst, ms); }
+  qv_window_open_source (the_watch.window, &source);
+  assert_true (qvg_wait (solving, the_watch.window, 120.0));
+  if (qv_window_is_busy (the_watch.window))
+    { const double ms = cancel_now (the_watch.window, "while solving"); worst = MAX (worst, ms); }
   else
     print_message ("the solve ended before it could be cancelled\n");
-  assert_ptr_equal (qv_window_get_document (w.window), demo);
+  assert_ptr_equal (qv_window_get_document (the_watch.window), demo);
 
   /* a mass re-solve of the shown document */
-  qv_window_set_atom_isotope (w.window, first_hydrogen (w.window), 2);
-  { const double ms = cancel_now (w.window, "a mass re-solve"); worst = MAX (worst, ms); }
-  assert_ptr_equal (qv_window_get_document (w.window), demo);
+  qv_window_set_atom_isotope (the_watch.window, first_hydrogen (the_watch.window), 2);
+  { const double ms = cancel_now (the_watch.window, "a mass re-solve"); worst = MAX (worst, ms); }
+  assert_ptr_equal (qv_window_get_document (the_watch.window), demo);
   assert_false (qv_document_get_masses_edited (demo));
 
   /* the abandoned workers end and their results are dropped */
   assert_true (qvg_wait (workers_done, NULL, 600.0));
   qvg_spin (0.2);
-  assert_ptr_equal (qv_window_get_document (w.window), demo);
-  assert_null (qv_window_get_error_dialog (w.window));
+  assert_ptr_equal (qv_window_get_document (the_watch.window), demo);
+  assert_null (qv_window_get_error_dialog (the_watch.window));
   printf ("cancel: worst latency %.3f ms (target 1 s)\n", worst);
 
   /* the next load works */
-  qv_window_open_source (w.window, &small);
-  assert_true (qvg_wait (qvg_window_has_document, w.window, 120.0));
-  assert_true (qv_window_get_document (w.window) != demo);
-  assert_int_equal (qv_document_get_structure (qv_window_get_document (w.window))->n_atoms, 60);
-  destroy (&w);
+  qv_window_open_source (the_watch.window, &small);
+  assert_true (qvg_wait (qvg_window_has_document, the_watch.window, 120.0));
+  assert_true (qv_window_get_document (the_watch.window) != demo);
+  assert_int_equal (qv_document_get_structure (qv_window_get_document (the_watch.window))->n_atoms, 60);
+  destroy (&the_watch);
   g_unlink (npy);
   g_unlink (xyz);
 }
