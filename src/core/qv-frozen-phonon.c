@@ -210,3 +210,36 @@ qv_frozen_phonon_project (const QvSupercellMap *map, const double cell[3][3], co
     }
   return 2 * z / nc;
 }
+
+QvFrozenPhonon *
+qv_frozen_phonon_new_in_crystal (const QvCrystal *crystal, const QvStructure *supercell,
+                                 const QvFrozenRequest *request, int max, int matrix[3][3],
+                                 GError **error)
+{
+  g_autoptr(QvStructure) own = NULL;
+  g_autoptr(QvSupercellMap) own_map = NULL;
+  const QvSupercellMap *map = crystal->map;
+  int m[3][3];
+
+  if (crystal->fc == NULL)
+    {
+      g_set_error_literal (error, QV_ERROR, QV_ERROR_USAGE,
+                           "the crystal has no force constants for a frozen phonon");
+      return NULL;
+    }
+  memcpy (m, crystal->map->matrix, sizeof m);
+  if (!qv_frozen_phonon_commensurate (m, request->q, NULL))
+    {
+      if (!qv_frozen_phonon_diagonal_supercell (request->q, max, m, error)
+          || (own = qv_supercell_build (crystal->primitive, m, error)) == NULL
+          || (own_map = qv_supercell_map (crystal->primitive, own, 0, error)) == NULL)
+        return NULL;
+      supercell = own;
+      map = own_map;
+    }
+  if (matrix != NULL)
+    memcpy (matrix, m, sizeof m);
+  return qv_frozen_phonon_new_with (crystal->fc, qv_crystal_term (crystal),
+                                    qv_crystal_term_data (crystal), map, supercell, request,
+                                    error);
+}

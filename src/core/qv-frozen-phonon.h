@@ -15,6 +15,7 @@
 
 #include <complex.h>
 #include <glib.h>
+#include "qv-crystal.h"
 #include "qv-dynamical-matrix.h"
 #include "qv-force-constants.h"
 #include "qv-structure.h"
@@ -84,6 +85,19 @@ QvFrozenPhonon *qv_frozen_phonon_new_with (const QvForceConstants *fc, QvDynamic
  * naming q otherwise. */
 gboolean qv_frozen_phonon_diagonal_supercell (const double q[3], int max, int matrix[3][3],
                                               GError **error);
+
+/* The frozen phonon of @request in @crystal (with its LO–TO term, if any):
+ * in @supercell, the structure the crystal's map was made from (its atoms
+ * in that order), when q is commensurate with it; otherwise in the
+ * smallest diagonal supercell of at most @max cells along each vector
+ * (qv_frozen_phonon_diagonal_supercell; atoms in qv_supercell_build's
+ * order). @matrix (may be NULL) receives the supercell used, in primitive
+ * vectors. Errors: QV_ERROR_USAGE as qv_frozen_phonon_new_with and
+ * qv_frozen_phonon_diagonal_supercell; @crystal without force constants. */
+QvFrozenPhonon *qv_frozen_phonon_new_in_crystal (const QvCrystal *crystal,
+                                                 const QvStructure *supercell,
+                                                 const QvFrozenRequest *request, int max,
+                                                 int matrix[3][3], GError **error);
 
 /* The complex amplitude z = A e^{iφ} of a displacement field @u (3 n_atoms,
  * Å) along the unit vector @e (3n) at q ≢ −q:

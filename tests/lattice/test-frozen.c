@@ -13,6 +13,7 @@
 #include <string.h>
 #include <glib/gstdio.h>
 #include "lattice-model.h"
+#include "qv-crystal.h"
 #include "qv-dynamical-matrix.h"
 #include "qv-error.h"
 #include "qv-export.h"
@@ -351,6 +352,80 @@ test_diagonal_supercell (void **state)
   g_clear_error (&error);
 }
 
+/* A frozen phonon of a crystal (what the app writes): in the crystal's own
+ * 3×3×3 supercell when q is commensurate with it, equal to the direct call
+ * there; otherwise in the smallest diagonal supercell, where the pattern
+ * obeys Bloch's condition u_lκ = e^{iq·R_l} u_0κ (±1 at the real q = X:
+ * a standing wave) and the wavenumber is D(q)'s; a q no small cell fits is
+ * refused. */
+static void
+test_in_crystal (void **state)
+{
+  Fixture *f = *state;
+  g_autoptr(QvCrystal) c = NULL;
+  GError *error = NULL;
+  int m[3][3];
+
+  c = qv_crystal_new (f->primitive, f->sc, 0, &error);
+  assert_non_null (c);
+  assert_true (qv_crystal_set_hessian (c, f->h, TRUE, &error));
+  {
+    QvFrozenRequest r = { { 1.0 / 3, 0, 2.0 / 3 }, 4, 0.05, QV_FROZEN_LARGEST, 0.3 };
+    g_autoptr(QvFrozenPhonon) in = qv_frozen_phonon_new_in_crystal (c, f->sc, &r, 12, m, &error);
+    g_autoptr(QvFrozenPhonon) direct = qv_frozen_phonon_new (f->fc, f->map, f->sc, &r, &error);
+    assert_non_null (in);
+    assert_non_null (direct);
+    for (int i = 0; i < 3; i++)
+      for (int j = 0; j < 3; j++)
+        assert_int_equal (m[i][j], i == j ? 3 : 0);
+    assert_int_equal (in->n_atoms, f->sc->n_atoms);
+    for (gsize k = 0; k < 3 * in->n_atoms; k++)
+      assert_true (fabs (in->displacements[k] - direct->displacements[k]) < 1e-12);
+  }
+  {
+    /* X = (1/2, 0, 1/2): 3×3×3 does not fit it, 2×1×2 does */
+    const double q[3] = { 0.5, 0, 0.5 };
+    QvFrozenRequest r = { { 0.5, 0, 0.5 }, 5, 0.05, QV_FROZEN_LARGEST, 0 };
+    g_autoptr(QvFrozenPhonon) fp = qv_frozen_phonon_new_in_crystal (c, f->sc, &r, 12, m, &error);
+    g_autoptr(QvSupercellMap) map = NULL;
+    g_autoptr(QvPhononSet) set = qv_dynamical_matrix_solve (c->fc, q, 1, FALSE, 1, NULL, NULL);
+    gsize first[2] = { G_MAXSIZE, G_MAXSIZE };
+    double largest = 0;
+
+    assert_non_null (fp);
+    assert_int_equal (m[0][0], 2);
+    assert_int_equal (m[1][1], 1);
+    assert_int_equal (m[2][2], 2);
+    assert_int_equal (fp->n_atoms, 2 * 4);
+    assert_true (fabs (fp->wavenumber - set->wavenumbers[5]) < 1e-9 * fabs (set->wavenumbers[5]));
+    map = qv_supercell_map (f->primitive, fp->structure, 0.1, &error);
+    assert_non_null (map);
+    for (gsize a = 0; a < fp->n_atoms; a++)
+      if (map->translation[3 * a] == 0 && map->translation[3 * a + 1] == 0
+          && map->translation[3 * a + 2] == 0)
+        first[map->site[a]] = a;
+    assert_true (first[0] != G_MAXSIZE && first[1] != G_MAXSIZE);
+    for (gsize a = 0; a < fp->n_atoms; a++)
+      {
+        const int *n = &map->translation[3 * a];
+        const double sign = cos (2 * G_PI * (q[0] * n[0] + q[1] * n[1] + q[2] * n[2]));
+        const gsize o = first[map->site[a]];
+        for (int x = 0; x < 3; x++)
+          {
+            assert_true (fabs (fp->displacements[3 * a + x] - sign * fp->displacements[3 * o + x]) < 1e-12);
+            largest = MAX (largest, fabs (fp->displacements[3 * a + x]));
+          }
+      }
+    assert_true (fabs (largest - 0.05) < 1e-12);   /* the amplitude asked for */
+  }
+  {
+    QvFrozenRequest r = { { 0.1234567, 0, 0 }, 0, 0.05, QV_FROZEN_LARGEST, 0 };
+    assert_null (qv_frozen_phonon_new_in_crystal (c, f->sc, &r, 12, m, &error));
+    assert_true (g_error_matches (error, QV_ERROR, QV_ERROR_USAGE));
+    g_clear_error (&error);
+  }
+}
+
 int
 main (void)
 {
@@ -360,6 +435,7 @@ main (void)
     cmocka_unit_test_setup_teardown (test_refused, setup, teardown),
     cmocka_unit_test_setup_teardown (test_with_nonanalytic, setup, teardown),
     cmocka_unit_test (test_diagonal_supercell),
+    cmocka_unit_test_setup_teardown (test_in_crystal, setup, teardown),
   };
   return cmocka_run_group_tests (tests, NULL, NULL);
 }
