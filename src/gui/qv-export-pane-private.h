@@ -16,6 +16,8 @@ typedef struct {
   int mode;                    /* the selected mode, 0-based, −1 for none */
   guint level;                 /* v of the list's turning points */
   double multiple;             /* the motion bar's amplitude, × turning point */
+  int lattice_q;               /* a crystal's lattice mode on the Lattice page: */
+  int lattice_branch;          /*   path point and branch, −1 for none */
 } QvExportContext;
 
 /* A deep copy of @modes (the document frees its own on a mass re-solve). */

@@ -13,6 +13,7 @@
 #include "qv-export.h"
 #include "qv-export-section-displace.h"
 #include "qv-export-section-ensemble.h"
+#include "qv-export-section-frozen.h"
 #include "qv-export-section-stencil.h"
 #ifdef QV_GUI_HAVE_PICTURE
 #include "qv-export-section-picture.h"
@@ -26,6 +27,7 @@ typedef void (*SetContextFunc) (gpointer section, const QvExportContext *context
 typedef struct {
   const char *name;
   GtkExpander *expander;
+  GtkWidget *separator;        /* above it, or NULL */
   GtkWidget *widget;
   SetContextFunc set_context;
 } Section;
@@ -38,7 +40,7 @@ struct _QvExportPane
   GtkBox *sections_box;
 
   GtkWidget *window;           /* not referenced: the pane is inside it */
-  Section sections[6];
+  Section sections[7];
   guint n_sections;
   gboolean stale;              /* changed while unmapped */
 };
@@ -210,7 +212,8 @@ static void
 refresh (QvExportPane *self)
 {
   QvWindow *window = QV_IS_WINDOW (self->window) ? QV_WINDOW (self->window) : NULL;
-  QvExportContext context = { window, NULL, -1, 0, 1.0 };
+  QvExportContext context = { window, NULL, -1, 0, 1.0, -1, -1 };
+  gboolean crystal = FALSE;
 
   if (!gtk_widget_get_mapped (GTK_WIDGET (self)))
     {
@@ -224,6 +227,9 @@ refresh (QvExportPane *self)
       context.mode = qv_mode_panel_get_selected (qv_window_get_mode_panel (window));
       context.level = qv_mode_panel_get_level (qv_window_get_mode_panel (window));
       context.multiple = qv_motion_bar_get_amplitude (qv_window_get_motion_bar (window));
+      qv_lattice_pane_get_selected (qv_window_get_lattice_pane (window), &context.lattice_q,
+                                    &context.lattice_branch);
+      crystal = context.document && qv_document_get_lattice (context.document) != NULL;
     }
   if (context.document && context.mode >= 0
       && (gsize) context.mode < qv_document_get_modes (context.document)->n_modes)
@@ -244,8 +250,18 @@ refresh (QvExportPane *self)
    * long table costs something on a large system); the others do when
    * they are opened. */
   for (guint i = 0; i < self->n_sections; i++)
-    if (gtk_expander_get_expanded (self->sections[i].expander))
-      self->sections[i].set_context (self->sections[i].widget, &context);
+    {
+      Section *s = &self->sections[i];
+      /* the frozen phonon is for crystals only */
+      if (g_str_equal (s->name, "frozen"))
+        {
+          gtk_widget_set_visible (GTK_WIDGET (s->expander), crystal);
+          if (s->separator)
+            gtk_widget_set_visible (s->separator, crystal);
+        }
+      if (gtk_expander_get_expanded (s->expander))
+        s->set_context (s->widget, &context);
+    }
 }
 
 void
@@ -267,6 +283,8 @@ qv_export_pane_attach (QvExportPane *self, GtkWidget *window)
   g_signal_connect_object (qv_window_get_motion_bar (QV_WINDOW (window)), "notify::amplitude",
                            G_CALLBACK (refresh), self, G_CONNECT_SWAPPED);
   g_signal_connect_object (qv_preferences_get_default (), "notify::wavenumber-unit",
+                           G_CALLBACK (refresh), self, G_CONNECT_SWAPPED);
+  g_signal_connect_object (qv_window_get_lattice_pane (QV_WINDOW (window)), "mode-activated",
                            G_CALLBACK (refresh), self, G_CONNECT_SWAPPED);
   refresh (self);
 }
@@ -330,8 +348,12 @@ add_section (QvExportPane *self, const char *name, const char *title, const char
   gtk_widget_add_css_class (expander, "export-section");
   gtk_widget_set_margin_top (expander, 6);
   gtk_widget_set_margin_bottom (expander, 6);
+  s->separator = NULL;
   if (self->n_sections > 1)
-    gtk_box_append (self->sections_box, gtk_separator_new (GTK_ORIENTATION_HORIZONTAL));
+    {
+      s->separator = gtk_separator_new (GTK_ORIENTATION_HORIZONTAL);
+      gtk_box_append (self->sections_box, s->separator);
+    }
   gtk_box_append (self->sections_box, expander);
   g_signal_connect_object (expander, "notify::expanded", G_CALLBACK (expanded_changed), self, 0);
 
@@ -390,6 +412,9 @@ qv_export_pane_init (QvExportPane *self)
   add_section (self, "stencil", _("Stenc_il"), _("Displacements whose forces give a Hessian"),
                g_object_new (QV_TYPE_EXPORT_SECTION_STENCIL, NULL),
                (SetContextFunc) qv_export_section_stencil_set_context);
+  add_section (self, "frozen", _("_Frozen Phonon"), _("A supercell moved along the chosen lattice mode"),
+               g_object_new (QV_TYPE_EXPORT_SECTION_FROZEN, NULL),
+               (SetContextFunc) qv_export_section_frozen_set_context);
 #ifdef QV_GUI_HAVE_PICTURE
   add_section (self, "picture", _("_Picture"), _("The view as PNG or SVG"),
                g_object_new (QV_TYPE_EXPORT_SECTION_PICTURE, NULL),

@@ -139,6 +139,25 @@ qvg_build_path (const char *name)
   return g_build_filename (dir, name, NULL);
 }
 
+void
+qvg_remove_tree (const char *dir)
+{
+  g_autoptr(GDir) d = g_dir_open (dir, 0, NULL);
+  const char *name;
+
+  if (d == NULL)
+    return;
+  while ((name = g_dir_read_name (d)))
+    {
+      g_autofree char *path = g_build_filename (dir, name, NULL);
+      if (g_file_test (path, G_FILE_TEST_IS_DIR) && !g_file_test (path, G_FILE_TEST_IS_SYMLINK))
+        qvg_remove_tree (path);
+      else
+        g_remove (path);
+    }
+  g_rmdir (dir);
+}
+
 QvStructure *
 qvg_spring_system (gsize n, guint32 seed, QvHessian **hessian)
 {

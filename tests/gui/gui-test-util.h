@@ -28,6 +28,8 @@ guchar *qvg_pixels (GdkTexture *texture, gsize *stride);
 guint qvg_count_colours (const guchar *pixels, gsize stride, int x, int y, int w, int h);
 /* A file in the build tree's tests/gui directory (created). */
 char *qvg_build_path (const char *name);
+/* Removes @dir and everything below it (a test's temporary folder). */
+void qvg_remove_tree (const char *dir);
 
 /* An invented system: @n atoms on a jittered cubic lattice (1.5 Å, ±0.25 Å,
  * elements drawn H 50 %, C 30 %, N 10 %, O 10 %), a spring of random

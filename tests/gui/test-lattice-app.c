@@ -18,9 +18,11 @@
 #include "qv-dispersion-plot.h"
 #include "qv-error.h"
 #include "qv-export-pane.h"
+#include "qv-export-section-frozen.h"
 #include "qv-export-section-stencil.h"
 #include "qv-symmetric-stencil.h"
 #include "qv-window-private.h"
+#include "qv-xyz.h"
 
 #define CRYSTAL_DIR "data/examples/rocksalt-springs"
 
@@ -368,6 +370,136 @@ test_symmetric_stencil_offered (void **state)
   gtk_window_destroy (GTK_WINDOW (window));
 }
 
+/* Atoms and the comment line of a frozen phonon's file. */
+static QvStructure *
+read_frozen (const char *dir, char **comment)
+{
+  g_autofree char *path = g_build_filename (dir, "frozen-phonon.xyz", NULL);
+  g_autofree char *text = NULL;
+  g_autoptr(GError) error = NULL;
+  g_autoptr(GPtrArray) frames = NULL;
+
+  assert_true (g_file_get_contents (path, &text, NULL, &error));
+  *comment = g_strdup (strchr (text, '\n') + 1);
+  *strchr (*comment, '\n') = '\0';
+  frames = qv_xyz_read_file (path, &error);
+  if (frames == NULL)
+    print_error ("%s\n", error->message);
+  assert_non_null (frames);
+  assert_int_equal (frames->len, 1);
+  return qv_structure_copy (frames->pdata[0]);
+}
+
+static gboolean
+writer_idle (gpointer writer)
+{
+  return !qv_export_writer_is_busy (writer);
+}
+
+/* The export pane's frozen phonon: a click on the highest branch at X
+ * (which the document's 3×3×3 supercell does not fit) offers a 2×1×2
+ * supercell, and what the app writes is what `quaver frozen-phonon
+ * --cell 2x1x2` writes from the same files (the command is checked against
+ * LAPACK's eigenvectors of D(q) in tests/lattice/test-frozen.c and a NumPy
+ * D(q) in test_frozen_numpy.py): the same atoms to 1e-9 Å and the same q,
+ * branch, wavenumber and amplitude on the comment line. */
+static void
+test_frozen_phonon_is_the_commands (void **state)
+{
+  QvWindow *window = open_crystal ();
+  const QvDocumentLattice *l = qv_document_get_lattice (qv_window_get_document (window));
+  QvLatticePane *lattice = qv_window_get_lattice_pane (window);
+  GtkWidget *area = qv_lattice_pane_get_dispersion_area (lattice);
+  QvExportPane *pane = qv_window_get_export_pane (window);
+  QvExportSectionFrozen *frozen;
+  QvDispersionPlotOptions o;
+  g_autoptr(GError) error = NULL;
+  g_autofree char *tmp = g_dir_make_tmp ("qv-frozen-app-XXXXXX", &error);
+  g_autofree char *app_dir = g_build_filename (tmp, "app", NULL);
+  g_autofree char *cli_dir = g_build_filename (tmp, "cli", NULL);
+  g_autofree char *manifest = g_build_filename (app_dir, "manifest.json", NULL);
+  gsize x = G_MAXSIZE, top = 0, branch = 0;
+  double q[3], px, py;
+  int m[3][3];
+  (void) state;
+
+  assert_non_null (tmp);
+  g_action_group_activate_action (G_ACTION_GROUP (window), "toggle-export-pane", NULL);
+  qvg_spin (0.5);
+  frozen = QV_EXPORT_SECTION_FROZEN (qv_export_pane_get_section (pane, "frozen", TRUE));
+  assert_true (gtk_widget_get_visible (gtk_widget_get_ancestor (GTK_WIDGET (frozen), GTK_TYPE_EXPANDER)));
+  qvg_spin (0.2);
+
+  for (gsize i = 0; i < l->sampling->n_labels; i++)
+    if (g_str_equal (l->sampling->labels[i], "X"))
+      x = l->sampling->label_index[i];
+  assert_true (x != G_MAXSIZE);
+  for (gsize j = 1; j < l->n_branches; j++)
+    if (l->bands[x * l->n_branches + j] > l->bands[x * l->n_branches + top])
+      top = j;
+  qv_dispersion_plot_options_init (&o);
+  o.width = gtk_widget_get_width (area);
+  o.height = gtk_widget_get_height (area);
+  assert_true (qv_dispersion_plot_point_to_pixel (l->sampling, l->n_branches, l->bands, &o, x, top, &px, &py));
+  assert_true (qv_lattice_pane_click (lattice, px, py));
+  qvg_spin (0.2);
+
+  qv_export_section_frozen_set_amplitude (frozen, 0.04, 30);
+  qvg_spin (0.1);
+  if (!qv_export_section_frozen_get_plan (frozen, q, &branch, m))
+    print_error ("no plan: %s\n", qv_export_section_frozen_get_message (frozen));
+  assert_true (qv_export_section_frozen_get_plan (frozen, q, &branch, m));
+  assert_true (fabs (q[0] - 0.5) < 1e-12 && fabs (q[1]) < 1e-12 && fabs (q[2] - 0.5) < 1e-12);
+  assert_int_equal (branch, l->n_branches - 1);          /* the highest, in ascending order */
+  assert_int_equal (m[0][0], 2);
+  assert_int_equal (m[1][1], 1);
+  assert_int_equal (m[2][2], 2);
+  assert_non_null (strstr (qv_export_section_frozen_get_mode_text (frozen), "X = (0.5 0 0.5)"));
+
+  qv_export_writer_write_to (qv_export_section_frozen_get_writer (frozen), app_dir, FALSE);
+  assert_true (qvg_wait (writer_idle, qv_export_section_frozen_get_writer (frozen), 60.0));
+  if (qv_export_writer_get_error (qv_export_section_frozen_get_writer (frozen)))
+    print_error ("%s\n", qv_export_writer_get_error (qv_export_section_frozen_get_writer (frozen))->message);
+  assert_null (qv_export_writer_get_error (qv_export_section_frozen_get_writer (frozen)));
+  assert_true (g_file_test (manifest, G_FILE_TEST_IS_REGULAR));
+
+  {
+    g_autofree char *dir = source_path (CRYSTAL_DIR);
+    g_autofree char *branch_arg = g_strdup_printf ("%zu", branch + 1);
+    const char *argv[] = { g_getenv ("QUAVER"), "frozen-phonon", "mx-primitive.xyz", "-S", "mx-supercell.xyz",
+                           "-H", "mx.hessian.npy", "-u", "eV/A^2", "--born", "mx.born.txt",
+                           "--q", "0.5 0 0.5", "--branch", branch_arg, "--largest", "0.04",
+                           "--phase", "30", "--cell", "2x1x2", "-o", cli_dir, NULL };
+    g_autofree char *err = NULL;
+    int status = -1;
+    g_autofree char *app_comment = NULL, *cli_comment = NULL;
+    g_autoptr(QvStructure) a = NULL, c = NULL;
+
+    assert_true (g_spawn_sync (dir, (char **) argv, NULL, G_SPAWN_STDOUT_TO_DEV_NULL, NULL, NULL, NULL, &err,
+                               &status, NULL));
+    if (status != 0)
+      print_error ("quaver frozen-phonon: %s\n", err);
+    assert_int_equal (status, 0);
+    a = read_frozen (app_dir, &app_comment);
+    c = read_frozen (cli_dir, &cli_comment);
+    assert_int_equal (a->n_atoms, 8);
+    assert_int_equal (a->n_atoms, c->n_atoms);
+    for (gsize i = 0; i < a->n_atoms; i++)
+      {
+        assert_int_equal (a->atoms[i].z, c->atoms[i].z);
+        for (int k = 0; k < 3; k++)
+          assert_true (fabs (a->atoms[i].position[k] - c->atoms[i].position[k]) < 1e-9);
+      }
+    assert_string_equal (app_comment, cli_comment);
+  }
+  /* written once: the same folder again is refused, nothing replaced */
+  qv_export_writer_write_to (qv_export_section_frozen_get_writer (frozen), app_dir, FALSE);
+  assert_true (qvg_wait (writer_idle, qv_export_section_frozen_get_writer (frozen), 60.0));
+  assert_non_null (qv_export_writer_get_error (qv_export_section_frozen_get_writer (frozen)));
+  gtk_window_destroy (GTK_WINDOW (window));
+  qvg_remove_tree (tmp);
+}
+
 /* A molecule has no lattice page. */
 static void
 test_molecule_has_no_lattice (void **state)
@@ -387,6 +519,14 @@ test_molecule_has_no_lattice (void **state)
     GtkStackPage *page = gtk_stack_get_page (stack, pane);
     assert_false (gtk_stack_page_get_visible (page) && qv_window_get_side_switcher_visible (window));
   }
+  {
+    /* nor a frozen phonon in the export pane */
+    QvExportPane *pane = qv_window_get_export_pane (window);
+    g_action_group_activate_action (G_ACTION_GROUP (window), "toggle-export-pane", NULL);
+    qvg_spin (0.5);
+    assert_false (gtk_widget_get_visible (gtk_widget_get_ancestor (qv_export_pane_get_section (pane, "frozen", FALSE),
+                                                                   GTK_TYPE_EXPANDER)));
+  }
   gtk_window_destroy (GTK_WINDOW (window));
 }
 
@@ -399,6 +539,7 @@ main (void)
     cmocka_unit_test (test_save),
     cmocka_unit_test (test_dos_and_thermal),
     cmocka_unit_test (test_symmetric_stencil_offered),
+    cmocka_unit_test (test_frozen_phonon_is_the_commands),
     cmocka_unit_test (test_molecule_has_no_lattice),
   };
   qvg_app ();
