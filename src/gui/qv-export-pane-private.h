@@ -54,6 +54,10 @@ typedef struct {
 gboolean qv_export_plan_job_run (gpointer job, const char *directory, gboolean force,
                                  const QvProgress *progress, GPtrArray *written, GError **error);
 void qv_export_plan_job_free (gpointer job);
+/* Writes @plan (qv_export_write) and adds the names of the files it wrote,
+ * also after a failure, to @written. */
+gboolean qv_export_pane_write (QvExport *plan, const char *directory, gboolean force,
+                               const QvProgress *progress, GPtrArray *written, GError **error);
 /* "11 structures in 11 files: mode7-scan-00.xyz … mode7-scan-10.xyz +
  * manifest.json", translated. */
 char *qv_export_pane_files_text (const QvExport *plan);

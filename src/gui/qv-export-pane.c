@@ -131,17 +131,23 @@ qv_export_plan_job_run (gpointer data, const char *directory, gboolean force,
   QvExportPlanJob *job = data;
   QvManifest *manifest = qv_export_pane_manifest (job->inputs->source, job->command, error);
   g_autoptr(QvExport) plan = NULL;
-  const char *const *names;
-  gsize n = 0;
-  gboolean ok;
 
   if (manifest == NULL)
     return FALSE;
   plan = job->plan (job->inputs, job->options, manifest, error);
   if (plan == NULL)
     return FALSE;
-  ok = qv_export_write (plan, directory, force, progress, error);
-  names = qv_export_written (plan, &n);
+  return qv_export_pane_write (plan, directory, force, progress, written, error);
+}
+
+gboolean
+qv_export_pane_write (QvExport *plan, const char *directory, gboolean force,
+                      const QvProgress *progress, GPtrArray *written, GError **error)
+{
+  const gboolean ok = qv_export_write (plan, directory, force, progress, error);
+  gsize n = 0;
+  const char *const *names = qv_export_written (plan, &n);
+
   for (gsize i = 0; i < n; i++)
     g_ptr_array_add (written, g_strdup (names[i]));
   return ok;

@@ -193,9 +193,6 @@ frozen_job_run (gpointer data, const char *directory, gboolean force, const QvPr
   QvManifest *manifest = qv_export_pane_manifest (job->source, "frozen-phonon", error);
   g_autoptr(QvFrozenPhonon) fp = NULL;
   g_autoptr(QvExport) plan = NULL;
-  const char *const *names;
-  gsize n = 0;
-  gboolean ok;
 
   if (manifest == NULL)
     return FALSE;
@@ -210,11 +207,7 @@ frozen_job_run (gpointer data, const char *directory, gboolean force, const QvPr
   plan = qv_export_new_frozen (fp, NULL, manifest, error);
   if (plan == NULL)
     return FALSE;
-  ok = qv_export_write (plan, directory, force, progress, error);
-  names = qv_export_written (plan, &n);
-  for (gsize i = 0; i < n; i++)
-    g_ptr_array_add (written, g_strdup (names[i]));
-  return ok;
+  return qv_export_pane_write (plan, directory, force, progress, written, error);
 }
 
 static gpointer

@@ -72,22 +72,6 @@ temp_dir (void)
   return dir;
 }
 
-static void
-remove_tree (const char *dir)
-{
-  g_autoptr(GDir) d = g_dir_open (dir, 0, NULL);
-  const char *name;
-
-  if (d == NULL)
-    return;
-  while ((name = g_dir_read_name (d)))
-    {
-      g_autofree char *path = g_build_filename (dir, name, NULL);
-      g_remove (path);
-    }
-  g_rmdir (dir);
-}
-
 /* Lines of @text that start with @prefix. */
 static guint
 count_lines (const char *text, const char *prefix)
@@ -164,7 +148,7 @@ test_table_written_and_read_back (void **state)
   assert_false (qv_export_section_table_save_to (table, path, TRUE, &error));
   g_clear_error (&error);
 
-  remove_tree (dir);
+  qvg_remove_tree (dir);
   close_window (window);
 }
 
@@ -401,7 +385,7 @@ test_scan_written_with_manifest (void **state)
   assert_true (qvg_wait (writer_idle, writer, 60.0));
   assert_null (qv_export_writer_get_error (writer));
 
-  remove_tree (dir);
+  qvg_remove_tree (dir);
   close_window (window);
 }
 
@@ -430,7 +414,7 @@ test_cancel_leaves_no_manifest (void **state)
   /* A cancel is the user's choice, not an error to show. */
   assert_null (qv_window_get_error_dialog (window));
 
-  remove_tree (dir);
+  qvg_remove_tree (dir);
   close_window (window);
 }
 
@@ -529,7 +513,7 @@ test_picture_and_animation_written (void **state)
   assert_int_equal (count_lines (text, "9"), 6);
 #endif
 
-  remove_tree (dir);
+  qvg_remove_tree (dir);
   close_window (window);
 }
 #endif
