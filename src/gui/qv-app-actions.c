@@ -107,6 +107,7 @@ qv_app_actions_install (QvApplication *app)
     { "win.toggle-export-pane", { "F9", NULL } },
     { "win.toggle-spectrum", { "F8", NULL } },
     { "win.compare", { "<Control><Shift>o", NULL } },
+    { "win.load-scan-energies", { "<Control><Shift>e", NULL } },
     { "win.close", { "<Control>w", NULL } },
   };
 

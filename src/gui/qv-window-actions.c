@@ -2,13 +2,14 @@
  * win.toggle-arrows, win.toggle-participation, win.toggle-orthographic,
  * win.view-along-x/y/z (and -minus-), win.reset-view, win.toggle-export-pane,
  * win.toggle-spectrum, win.compare, win.reset-masses, win.level-up/down, win.cancel, win.open-recent, win.close,
- * win.save-bundle.
+ * win.save-bundle, win.load-scan-energies.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "qv-camera.h"
 #include "qv-preferences.h"
 #include "qv-window-actions.h"
 #include "qv-window-private.h"
 #include "qv-window-save.h"
+#include "qv-window-scan.h"
 
 static void
 next_mode (GSimpleAction *a, GVariant *p, gpointer win)
@@ -89,6 +90,12 @@ save_bundle (GSimpleAction *a, GVariant *p, gpointer win)
 }
 
 static void
+load_scan_energies (GSimpleAction *a, GVariant *p, gpointer win)
+{
+  qv_window_choose_scan_energies (win);
+}
+
+static void
 close_window (GSimpleAction *a, GVariant *p, gpointer win)
 {
   gtk_window_close (win);
@@ -123,6 +130,7 @@ qv_window_actions_install (QvWindow *self)
     { "close", close_window },
     { "compare", compare },
     { "save-bundle", save_bundle },
+    { "load-scan-energies", load_scan_energies },
   };
   QvPreferences *prefs = qv_preferences_get_default ();
   static const struct { const char *action; const char *property; } toggles[] = {
