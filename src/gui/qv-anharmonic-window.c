@@ -91,6 +91,13 @@ cm1 (double ev)
   return qv_scan_levels_wavenumber (ev);
 }
 
+/* A coordinate for the summary: no "−0.0000" for a minimum at the origin. */
+static double
+tidy (double q)
+{
+  return fabs (q) < 5e-5 ? 0.0 : q;
+}
+
 /* ---- the worker: read, fit, solve ---- */
 
 typedef struct {
@@ -281,7 +288,7 @@ fill_summary (QvAnharmonicWindow *self)
                               r->report.wavenumbers[0]);
       g_string_append_c (s, '\n');
       g_string_append_printf (s, _("ωₑ %.4f · ωₑxₑ %.4f cm⁻¹ · minimum at Q = %.4f u½ Å"),
-                              cm1 (l->omega_e), cm1 (l->omega_e_x_e), l->q_min[0]);
+                              cm1 (l->omega_e), cm1 (l->omega_e_x_e), tidy (l->q_min[0]));
       if (l->minima && l->minima->len > 1)
         {
           const QvScanMinimum *a = &g_array_index (l->minima, QvScanMinimum, 0);
@@ -292,7 +299,7 @@ fill_summary (QvAnharmonicWindow *self)
           g_string_append_printf (s, _("Double well: minima at Q = %.4f (%.4f cm⁻¹) and %.4f "
                                        "(%.4f cm⁻¹) · barrier %.4f cm⁻¹ · tunnelling splitting "
                                        "%.4f cm⁻¹"),
-                                  a->Q[0], cm1 (a->energy), b->Q[0], cm1 (b->energy),
+                                  tidy (a->Q[0]), cm1 (a->energy), tidy (b->Q[0]), cm1 (b->energy),
                                   cm1 (l->barrier), cm1 (l->splitting));
         }
     }

@@ -23,7 +23,13 @@
  *   -f text|csv|json, a .png and an .svg, and refuses to replace a file
  *   without force (the file is kept);
  * - a NaN energy: the window shows the reader's "file:line" message on its
- *   error page and in an error dialog, and stays usable.
+ *   error page and in an error dialog, and stays usable;
+ * - energies as energy= of the XYZ files (eV, no energy file asked for):
+ *   a symmetric double well B((Q/a)² − 1)² (invented, as in
+ *   tests/anharmonic) shows the command's levels, both minima, the barrier
+ *   (B itself, the quartic being exact) and the tunnelling splitting, with
+ *   the multiple-well warning as a banner; a scan too short for the Morse
+ *   well flags its levels above the scan in the table and warns.
  *
  * Constants: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93, 025010,
  * 2021): e, u, c, h exact or as published.
@@ -229,10 +235,28 @@ cell_value (QvAnharmonicWindow *w, guint v, guint column)
 /* Every level the window shows against the command's JSON: E, E − E0,
  * ⟨Q⟩ and the turning points at the table's 4 decimals; the report's
  * values to 1e-9 cm⁻¹ (the same calls). */
+static void check_against_json (QvAnharmonicWindow *w, const char *out);
+
+/* A turning point of the command's JSON as the table shows it: null (V
+ * below E up to the scan's end) is "beyond the scan". */
+static char *
+turning_text (JsonArray *tp, guint k)
+{
+  JsonNode *n = json_array_get_element (tp, k);
+  return JSON_NODE_HOLDS_NULL (n) ? g_strdup ("beyond the scan")
+                                  : g_strdup_printf ("%.4f", json_node_get_double (n));
+}
+
 static void
 check_against_cli (QvAnharmonicWindow *w, const char *extra)
 {
   g_autofree char *out = run_anharmonic (extra, "json");
+  check_against_json (w, out);
+}
+
+static void
+check_against_json (QvAnharmonicWindow *w, const char *out)
+{
   g_autoptr(JsonParser) parser = json_parser_new ();
   const QvScanLevelsReport *report = qv_anharmonic_window_get_report (w);
   JsonObject *root;
@@ -249,8 +273,8 @@ check_against_cli (QvAnharmonicWindow *w, const char *extra)
       const double e = json_object_get_double_member (lv, "energy");
       JsonArray *tp = json_object_get_array_member (lv, "turning_points");
       const char *turning = qv_anharmonic_window_get_cell (w, v, QV_ANHARMONIC_COLUMN_TURNING);
-      g_autofree char *expect_tp = g_strdup_printf ("%.4f … %.4f", json_array_get_double_element (tp, 0),
-                                                    json_array_get_double_element (tp, 1));
+      g_autofree char *tp0 = turning_text (tp, 0), *tp1 = turning_text (tp, 1);
+      g_autofree char *expect_tp = g_strdup_printf ("%s … %s", tp0, tp1);
 
       assert_int_equal ((int) cell_value (w, v, QV_ANHARMONIC_COLUMN_V), (int) v);
       assert_close (cell_value (w, v, QV_ANHARMONIC_COLUMN_ENERGY), e, 0.5e-4 + 1e-9);
@@ -484,6 +508,140 @@ test_nan_energy (void **state)
   gtk_window_destroy (GTK_WINDOW (window));
 }
 
+/* A scan `quaver displace BUNDLE ARGS… -o tmp/NAME` with V(Q) (eV) of
+ * each structure written back as energy= on its XYZ comment line; its
+ * manifest. */
+static char *
+xyz_scan (const char *name, const char *const *args, double (*V) (double Q))
+{
+  g_autofree char *bundle = g_build_filename (g_getenv ("QV_SOURCE_ROOT"), "data", "examples",
+                                              "formaldehyde", "formaldehyde.quaver.json", NULL);
+  g_autofree char *dir = g_build_filename (tmp, name, NULL);
+  g_autoptr(GPtrArray) argv = g_ptr_array_new ();
+  g_autoptr(JsonParser) parser = json_parser_new ();
+  g_autofree char *out = NULL;
+  char *path;
+  JsonArray *files;
+
+  g_ptr_array_add (argv, "displace");
+  g_ptr_array_add (argv, bundle);
+  for (const char *const *a = args; *a; a++)
+    g_ptr_array_add (argv, (gpointer) *a);
+  g_ptr_array_add (argv, "-o");
+  g_ptr_array_add (argv, dir);
+  g_ptr_array_add (argv, NULL);
+  out = run_cli ((const char *const *) argv->pdata);
+  path = g_build_filename (dir, "manifest.json", NULL);
+  assert_true (json_parser_load_from_file (parser, path, NULL));
+  files = json_object_get_array_member (json_node_get_object (json_parser_get_root (parser)), "files");
+  for (guint i = 0; i < json_array_get_length (files); i++)
+    {
+      JsonObject *f = json_array_get_object_element (files, i);
+      JsonObject *frame = json_array_get_object_element (json_object_get_array_member (f, "frames"), 0);
+      JsonObject *mode = json_array_get_object_element (json_object_get_array_member (frame, "modes"), 0);
+      g_autofree char *xyz = g_build_filename (dir, json_object_get_string_member (f, "name"), NULL);
+      g_autofree char *text = NULL;
+      g_auto(GStrv) lines = NULL;
+      g_autofree char *comment = NULL, *joined = NULL;
+
+      assert_true (g_file_get_contents (xyz, &text, NULL, NULL));
+      lines = g_strsplit (text, "\n", -1);
+      assert_true (g_strv_length (lines) > 2);
+      comment = g_strdup_printf ("%s energy=%.15g", lines[1], V (json_object_get_double_member (mode, "Q")));
+      g_free (lines[1]);
+      lines[1] = g_steal_pointer (&comment);
+      joined = g_strjoinv ("\n", lines);
+      assert_true (g_file_set_contents (xyz, joined, -1, NULL));
+    }
+  return path;
+}
+
+/* V = B((Q/a)² − 1)², a = 0.45 u½ Å, B = 1500 cm⁻¹ (invented, as in
+ * tests/anharmonic): minima at ±a, barrier B */
+#define WELL_A 0.45
+#define WELL_B_CM1 1500.0
+static double
+double_well (double Q)
+{
+  const double ev_per_cm1 = H_PLANCK * C_LIGHT * 100 / E_CHARGE;
+  return WELL_B_CM1 * ev_per_cm1 * pow (pow (Q / WELL_A, 2) - 1, 2);
+}
+
+static double
+morse_short (double Q)
+{
+  /* the Morse well of setup() on a scan too short for its upper levels */
+  const double lambda = pow (hbar_omega * E_CHARGE / (H_PLANCK / (2 * G_PI)), 2) * 1e-20 * M_U / E_CHARGE;
+  const double a = sqrt (lambda / (2 * MORSE_D));
+  return MORSE_D * pow (1 - exp (-a * Q), 2);
+}
+
+/* The core's warnings as banners, the table's flags and a double well's
+ * summary, on scans whose energies are energy= of their XYZ files (eV,
+ * no energy file: the chooser's path without the second question). */
+static void
+test_warnings (void **state)
+{
+  static const char *const dw_args[] = { "--mode", "1", "--scan", "61", "--Q", "0.9", NULL };
+  static const char *const short_args[] = { "--mode", "1", "--scan", "11", "--q", "2", NULL };
+  g_autofree char *dw = xyz_scan ("dw", dw_args, double_well);
+  g_autofree char *shrt = xyz_scan ("short", short_args, morse_short);
+  QvWindow *window = qvg_window ();
+  QvAnharmonicWindow *w;
+  g_autofree char *banners = NULL;
+  gboolean flagged = FALSE;
+
+  assert_true (qv_scan_energies_have_xyz_energies (dw));
+  w = qv_window_load_scan_energies (window, dw, NULL);
+  assert_true (qvg_wait (window_idle, w, 120.0));
+  qv_anharmonic_window_set_fit (w, QV_SCAN_FIT_POLYNOMIAL, 4);
+  assert_true (qvg_wait (window_idle, w, 120.0));
+  {
+    const char *args[] = { "anharmonic", dw, "--degree=4", "-f", "json", NULL };
+    g_autofree char *out = run_cli (args);
+    g_autoptr(JsonParser) parser = json_parser_new ();
+    JsonObject *well;
+    g_autofree char *splitting = NULL, *barrier = NULL;
+
+    check_against_json (w, out);
+    assert_true (json_parser_load_from_data (parser, out, -1, NULL));
+    well = json_object_get_object_member (json_node_get_object (json_parser_get_root (parser)), "double_well");
+    assert_non_null (well);
+    splitting = g_strdup_printf ("tunnelling splitting %.4f cm⁻¹", json_object_get_double_member (well, "splitting"));
+    barrier = g_strdup_printf ("barrier %.4f cm⁻¹", json_object_get_double_member (well, "barrier"));
+    assert_non_null (strstr (qv_anharmonic_window_get_summary (w), splitting));
+    assert_non_null (strstr (qv_anharmonic_window_get_summary (w), barrier));
+    /* the barrier of the invented well, 1500 cm⁻¹, from the quartic fit */
+    assert_close (json_object_get_double_member (well, "barrier"), WELL_B_CM1, 1e-3);
+  }
+  assert_non_null (strstr (qv_anharmonic_window_get_summary (w), "Double well"));
+  banners = qv_anharmonic_window_get_banners (w);
+  assert_non_null (strstr (banners, "multiple well"));
+  g_clear_pointer (&banners, g_free);
+
+  /* the short scan: levels above it flagged in the table and warned */
+  qv_anharmonic_window_load (w, shrt, &(QvScanEnergiesOptions) { NULL, FALSE, QV_ENERGY_UNIT_EV,
+                                                                 QV_SCAN_GEOMETRY_TOLERANCE });
+  assert_true (qvg_wait (window_idle, w, 120.0));
+  {
+    const char *args[] = { "anharmonic", shrt, "-f", "json", NULL };
+    g_autofree char *out = run_cli (args);
+    check_against_json (w, out);
+  }
+  banners = qv_anharmonic_window_get_banners (w);
+  assert_non_null (strstr (banners, "above the highest scanned energy"));
+  for (guint v = 0; v < qv_anharmonic_window_get_report (w)->levels->n_levels; v++)
+    {
+      const gboolean above = qv_anharmonic_window_get_report (w)->levels->levels[v].above_scan;
+      const char *flags = qv_anharmonic_window_get_cell (w, v, QV_ANHARMONIC_COLUMN_FLAGS);
+      assert_int_equal (above, strstr (flags, "above the scan") != NULL);
+      flagged |= above;
+    }
+  assert_true (flagged);
+  gtk_window_destroy (GTK_WINDOW (w));
+  gtk_window_destroy (GTK_WINDOW (window));
+}
+
 /* The picture of the guide (docs/guide/anharmonic-window.png): with
  * QV_ANHARMONIC_SHOT=SECONDS the spline window stays on screen that long
  * for `import -window root`. */
@@ -516,6 +674,7 @@ main (void)
     cmocka_unit_test (test_readout),
     cmocka_unit_test (test_save),
     cmocka_unit_test (test_nan_energy),
+    cmocka_unit_test (test_warnings),
     cmocka_unit_test (test_screenshot_pause),
   };
 
