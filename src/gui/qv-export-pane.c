@@ -242,8 +242,11 @@ refresh (QvExportPane *self)
     {
       g_autofree char *title = qv_export_pane_mode_title (qv_document_get_modes (context.document),
                                                          (gsize) context.mode);
-      /* TRANSLATORS: "Of mode 7 (1234.5 cm⁻¹), as selected in the list; v = 0" */
-      g_autofree char *text = g_strdup_printf (_("Of %s, as selected in the list; v = %u"), title, context.level);
+      g_autofree char *text = crystal
+        /* TRANSLATORS: a crystal: "Of supercell mode 7 (1234.5 cm⁻¹), as selected on Supercell Modes; v = 0" */
+        ? g_strdup_printf (_("Of supercell %s, as selected on Supercell Modes; v = %u"), title, context.level)
+        /* TRANSLATORS: "Of mode 7 (1234.5 cm⁻¹), as selected in the list; v = 0" */
+        : g_strdup_printf (_("Of %s, as selected in the list; v = %u"), title, context.level);
       gtk_label_set_label (self->heading_label, text);
     }
   else
