@@ -29,7 +29,10 @@
  *   tests/anharmonic) shows the command's levels, both minima, the barrier
  *   (B itself, the quartic being exact) and the tunnelling splitting, with
  *   the multiple-well warning as a banner; a scan too short for the Morse
- *   well flags its levels above the scan in the table and warns.
+ *   well flags its levels above the scan in the table and warns;
+ * - a grid over two modes with a coupled quadratic potential: the table and
+ *   the coupled fundamentals as the command prints them, no plot, the CSV
+ *   as the command's.
  *
  * Constants: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93, 025010,
  * 2021): e, u, c, h exact or as published.
@@ -261,19 +264,23 @@ check_against_json (QvAnharmonicWindow *w, const char *out)
   const QvScanLevelsReport *report = qv_anharmonic_window_get_report (w);
   JsonObject *root;
   JsonArray *levels;
+  guint dim;
 
   assert_true (json_parser_load_from_data (parser, out, -1, NULL));
   root = json_node_get_object (json_parser_get_root (parser));
   levels = json_object_get_array_member (root, "levels");
+  dim = (guint) json_object_get_int_member (root, "dimension");
   assert_non_null (report);
+  assert_int_equal (report->dim, dim);
   assert_int_equal (json_array_get_length (levels), report->levels->n_levels);
   for (guint v = 0; v < json_array_get_length (levels); v++)
     {
       JsonObject *lv = json_array_get_object_element (levels, v);
       const double e = json_object_get_double_member (lv, "energy");
-      JsonArray *tp = json_object_get_array_member (lv, "turning_points");
+      JsonArray *tp = dim == 1 ? json_object_get_array_member (lv, "turning_points") : NULL;
       const char *turning = qv_anharmonic_window_get_cell (w, v, QV_ANHARMONIC_COLUMN_TURNING);
-      g_autofree char *tp0 = turning_text (tp, 0), *tp1 = turning_text (tp, 1);
+      g_autofree char *tp0 = dim == 1 ? turning_text (tp, 0) : NULL;
+      g_autofree char *tp1 = dim == 1 ? turning_text (tp, 1) : NULL;
       g_autofree char *expect_tp = g_strdup_printf ("%s … %s", tp0, tp1);
 
       assert_int_equal ((int) cell_value (w, v, QV_ANHARMONIC_COLUMN_V), (int) v);
@@ -283,16 +290,30 @@ check_against_json (QvAnharmonicWindow *w, const char *out)
       assert_close (cell_value (w, v, QV_ANHARMONIC_COLUMN_MEAN),
                            json_array_get_double_element (json_object_get_array_member (lv, "mean_Q"), 0),
                            0.5e-4 + 1e-12);
-      assert_string_equal (turning, expect_tp);
+      if (dim == 2)
+        assert_string_equal (turning, "—");
+      else
+        assert_string_equal (turning, expect_tp);
       assert_close (qv_scan_levels_wavenumber (report->levels->levels[v].energy), e, 1e-9);
     }
-  assert_close (qv_scan_levels_wavenumber (report->levels->fundamental),
-                       json_object_get_double_member (root, "fundamental"), 1e-9);
-  /* the summary shows the fundamental as the command prints it */
-  {
-    g_autofree char *f = g_strdup_printf ("%.4f", json_object_get_double_member (root, "fundamental"));
-    assert_non_null (strstr (qv_anharmonic_window_get_summary (w), f));
-  }
+  if (dim == 1)
+    {
+      /* the summary shows the fundamental as the command prints it */
+      g_autofree char *f = g_strdup_printf ("Fundamental %.4f",
+                                            json_object_get_double_member (root, "fundamental"));
+      assert_close (qv_scan_levels_wavenumber (report->levels->fundamental),
+                    json_object_get_double_member (root, "fundamental"), 1e-9);
+      assert_non_null (strstr (qv_anharmonic_window_get_summary (w), f));
+    }
+  else
+    {
+      /* a grid: the coupled fundamentals */
+      JsonArray *f = json_object_get_array_member (root, "fundamentals");
+      g_autofree char *text = g_strdup_printf ("Coupled fundamentals %.4f and %.4f",
+        json_object_get_double_member (json_array_get_object_element (f, 0), "wavenumber"),
+        json_object_get_double_member (json_array_get_object_element (f, 1), "wavenumber"));
+      assert_non_null (strstr (qv_anharmonic_window_get_summary (w), text));
+    }
   /* the command's warnings and notes are the window's banners */
   {
     JsonArray *warnings = json_object_get_array_member (root, "warnings");
@@ -642,6 +663,64 @@ test_warnings (void **state)
   gtk_window_destroy (GTK_WINDOW (window));
 }
 
+/* A grid over modes 1 and 2 with V = ½(l₁Q₁² + l₂Q₂²) + cQ₁Q₂ (invented
+ * l₁ = 0.5, l₂ = 0.8, c = 0.1 eV/(u Å²)), energies in eV in a file: the
+ * table and the coupled fundamentals as the command prints them, no plot
+ * (it draws one coordinate), the table saved as the command's. */
+static void
+test_grid (void **state)
+{
+  g_autofree char *bundle = g_build_filename (g_getenv ("QV_SOURCE_ROOT"), "data", "examples",
+                                              "formaldehyde", "formaldehyde.quaver.json", NULL);
+  g_autofree char *dir = g_build_filename (tmp, "grid", NULL);
+  g_autofree char *grid = g_build_filename (dir, "manifest.json", NULL);
+  g_autofree char *file = g_build_filename (tmp, "grid.txt", NULL);
+  g_autofree char *out = NULL, *saved = NULL, *csv = g_build_filename (tmp, "grid.csv", NULL);
+  g_autoptr(JsonParser) parser = json_parser_new ();
+  g_autoptr(GString) text = g_string_new (NULL);
+  const char *displace[] = { "displace", bundle, "--modes", "1,2", "--grid", "9", "--q", "5", "-o", dir, NULL };
+  const char *json_args[] = { "anharmonic", grid, "--energies", file, "--energy-units", "eV", "-f", "json", NULL };
+  const char *csv_args[] = { "anharmonic", grid, "--energies", file, "--energy-units", "eV", "-f", "csv", NULL };
+  JsonArray *files;
+  QvScanEnergiesOptions options;
+  QvWindow *window;
+  QvAnharmonicWindow *w;
+
+  g_free (run_cli (displace));
+  assert_true (json_parser_load_from_file (parser, grid, NULL));
+  files = json_object_get_array_member (json_node_get_object (json_parser_get_root (parser)), "files");
+  for (guint i = 0; i < json_array_get_length (files); i++)
+    {
+      JsonObject *f = json_array_get_object_element (files, i);
+      JsonArray *modes = json_object_get_array_member (
+        json_array_get_object_element (json_object_get_array_member (f, "frames"), 0), "modes");
+      const double q1 = json_object_get_double_member (json_array_get_object_element (modes, 0), "Q");
+      const double q2 = json_object_get_double_member (json_array_get_object_element (modes, 1), "Q");
+      const char *name = json_object_get_string_member (f, "name");
+      g_string_append_printf (text, "%.*s %.15f\n", (int) strlen (name) - 4, name,
+                              0.5 * (0.5 * q1 * q1 + 0.8 * q2 * q2) + 0.1 * q1 * q2);
+    }
+  assert_true (g_file_set_contents (file, text->str, -1, NULL));
+  window = qvg_window ();
+  qv_scan_energies_options_init (&options);
+  options.energies = file;
+  options.unit_given = TRUE;
+  options.unit = QV_ENERGY_UNIT_EV;
+  w = qv_window_load_scan_energies (window, grid, &options);
+  assert_true (qvg_wait (window_idle, w, 300.0));
+  assert_null (qv_anharmonic_window_get_error (w));
+  out = run_cli (json_args);
+  check_against_json (w, out);
+  assert_false (gtk_widget_get_visible (qv_anharmonic_window_get_plot (w)));
+  assert_true (qv_anharmonic_window_save (w, csv, FALSE, NULL));
+  g_clear_pointer (&out, g_free);
+  out = run_cli (csv_args);
+  assert_true (g_file_get_contents (csv, &saved, NULL, NULL));
+  assert_string_equal (saved, out);
+  gtk_window_destroy (GTK_WINDOW (w));
+  gtk_window_destroy (GTK_WINDOW (window));
+}
+
 /* The picture of the guide (docs/guide/anharmonic-window.png): with
  * QV_ANHARMONIC_SHOT=SECONDS the spline window stays on screen that long
  * for `import -window root`. */
@@ -658,7 +737,7 @@ test_screenshot_pause (void **state)
   w = open_morse (window, energies);
   qv_anharmonic_window_set_fit (w, QV_SCAN_FIT_SPLINE, 0);
   assert_true (qvg_wait (window_idle, w, 120.0));
-  gtk_window_set_default_size (GTK_WINDOW (w), 1000, 860);
+  gtk_window_set_default_size (GTK_WINDOW (w), 1000, 790);
   qvg_spin (0.5);
   qv_anharmonic_window_hover (w, 600, 200);
   qvg_spin (g_ascii_strtod (seconds, NULL));
@@ -675,6 +754,7 @@ main (void)
     cmocka_unit_test (test_save),
     cmocka_unit_test (test_nan_energy),
     cmocka_unit_test (test_warnings),
+    cmocka_unit_test (test_grid),
     cmocka_unit_test (test_screenshot_pause),
   };
 
