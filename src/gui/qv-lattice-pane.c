@@ -463,13 +463,19 @@ update_info (QvLatticePane *self)
     g_string_append_printf (s, "\n%s", l->path_note);
   if (l->mesh_note)
     g_string_append_printf (s, "\n%s", l->mesh_note);
+  if (qv_document_get_masses_edited (self->document))
+    /* a mass edit is of one atom of the supercell, which no primitive cell
+     * describes (a defect): only the supercell's own modes follow it */
+    g_string_append_printf (s, "\n%s", _("⚠ These plots use the masses as loaded: mass edits change the Supercell Modes only."));
   gtk_label_set_label (self->info_label, s->str);
 }
 
 void
 qv_lattice_pane_set_document (QvLatticePane *self, QvDocument *doc)
 {
-  g_set_object (&self->document, doc);
+  /* a mass edit re-solves the document: say what it does not change */
+  if (g_set_object (&self->document, doc) && doc)
+    g_signal_connect_object (doc, "changed", G_CALLBACK (update_info), self, G_CONNECT_SWAPPED);
   self->lattice = doc ? qv_document_get_lattice (doc) : NULL;
   self->selected_q = self->selected_branch = -1;
   self->hover_q = self->hover_branch = -1;
@@ -488,6 +494,12 @@ qv_lattice_pane_set_document (QvLatticePane *self, QvDocument *doc)
   gtk_widget_queue_draw (GTK_WIDGET (self->dispersion_area));
   gtk_widget_queue_draw (GTK_WIDGET (self->dos_area));
   gtk_widget_queue_draw (GTK_WIDGET (self->thermal_area));
+}
+
+const char *
+qv_lattice_pane_get_info (QvLatticePane *self)
+{
+  return gtk_label_get_label (self->info_label);
 }
 
 void

@@ -20,6 +20,8 @@ G_DECLARE_FINAL_TYPE (QvLatticePane, qv_lattice_pane, QV, LATTICE_PANE, GtkWidge
 void qv_lattice_pane_set_document (QvLatticePane *self, QvDocument *doc);
 /* The lattice mode shown: q point @q_index of the path and branch @branch
  * (connected order), or −1 for none. Emits nothing. */
+/* The header: formula, space group, cells, notes. */
+const char *qv_lattice_pane_get_info (QvLatticePane *self);
 void qv_lattice_pane_set_selected (QvLatticePane *self, int q_index, int branch);
 void qv_lattice_pane_get_selected (QvLatticePane *self, int *q_index, int *branch);
 /* Cells along each lattice vector the view replicates ("cells" property). */

@@ -500,6 +500,34 @@ test_frozen_phonon_is_the_commands (void **state)
   qvg_remove_tree (tmp);
 }
 
+static gboolean
+masses_edited_and_idle (gpointer window)
+{
+  return qv_document_get_masses_edited (qv_window_get_document (window)) && qvg_window_idle (window);
+}
+
+/* A mass edit re-solves the supercell's modes; the lattice page keeps the
+ * loaded masses and says so. */
+static void
+test_mass_edit_noted (void **state)
+{
+  QvWindow *window = open_crystal ();
+  QvLatticePane *pane = qv_window_get_lattice_pane (window);
+  const QvStructure *s = qv_document_get_structure (qv_window_get_document (window));
+  gsize cl = 0;
+  (void) state;
+
+  assert_null (strstr (qv_lattice_pane_get_info (pane), "masses as loaded"));
+  while (cl < s->n_atoms && s->atoms[cl].z != 17)
+    cl++;
+  assert_true (cl < s->n_atoms);
+  qv_window_set_atom_isotope (window, cl, 37);
+  assert_true (qvg_wait (masses_edited_and_idle, window, 60.0));
+  assert_non_null (qv_document_get_lattice (qv_window_get_document (window)));
+  assert_non_null (strstr (qv_lattice_pane_get_info (pane), "masses as loaded"));
+  gtk_window_destroy (GTK_WINDOW (window));
+}
+
 /* A molecule has no lattice page. */
 static void
 test_molecule_has_no_lattice (void **state)
@@ -540,6 +568,7 @@ main (void)
     cmocka_unit_test (test_dos_and_thermal),
     cmocka_unit_test (test_symmetric_stencil_offered),
     cmocka_unit_test (test_frozen_phonon_is_the_commands),
+    cmocka_unit_test (test_mass_edit_noted),
     cmocka_unit_test (test_molecule_has_no_lattice),
   };
   qvg_app ();
