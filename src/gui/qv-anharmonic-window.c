@@ -420,6 +420,9 @@ solve_done (GObject *source, GAsyncResult *result, gpointer data)
   gtk_spinner_set_spinning (self->spinner, FALSE);
   if (r == NULL)
     {
+      /* nothing shown, nothing saved: the levels of another fit would not
+       * be those the controls say (the scan stays for another fit) */
+      g_clear_pointer (&self->result, result_free);
       show_error (self, loading ? _("The scan's energies cannot be used")
                                 : _("The levels cannot be solved with this fit"), error);
       return;
