@@ -343,6 +343,12 @@ test_levels_as_the_command (void **state)
    * the energy file and its unit */
   assert_null (find_anharmonic_window ());
   assert_true (g_action_group_has_action (G_ACTION_GROUP (window), "load-scan-energies"));
+  {
+    /* its keyboard shortcut */
+    g_auto(GStrv) accels = gtk_application_get_accels_for_action (GTK_APPLICATION (qvg_app ()),
+                                                                  "win.load-scan-energies");
+    assert_true (accels && accels[0] && g_strv_contains ((const char *const *) accels, "<Shift><Control>e"));
+  }
   g_action_group_activate_action (G_ACTION_GROUP (window), "load-scan-energies", NULL);
   assert_true (qvg_wait (chooser_shown, window, 30.0));
   chooser = qv_window_scan_get_chooser (window);
@@ -694,6 +700,16 @@ test_warnings (void **state)
   gtk_window_destroy (GTK_WINDOW (window));
 }
 
+typedef struct { QvAnharmonicWindow *w; guint busy; } Ticks;
+
+static gboolean
+count_busy_tick (gpointer data)
+{
+  Ticks *t = data;
+  t->busy += qv_anharmonic_window_is_busy (t->w);
+  return G_SOURCE_CONTINUE;
+}
+
 /* A grid over modes 1 and 2 with V = ½(l₁Q₁² + l₂Q₂²) + cQ₁Q₂ (invented
  * l₁ = 0.5, l₂ = 0.8, c = 0.1 eV/(u Å²)), energies in eV in a file: the
  * table and the coupled fundamentals as the command prints them, no plot
@@ -738,7 +754,15 @@ test_grid (void **state)
   options.unit_given = TRUE;
   options.unit = QV_ENERGY_UNIT_EV;
   w = qv_window_load_scan_energies (window, grid, &options);
-  assert_true (qvg_wait (window_idle, w, 300.0));
+  {
+    /* the solve runs on a worker: the main loop turns while it is busy */
+    Ticks t = { w, 0 };
+    const guint id = g_timeout_add (1, count_busy_tick, &t);
+    assert_true (qvg_wait (window_idle, w, 300.0));
+    g_source_remove (id);
+    print_message ("main loop turned %u times during the grid's solve\n", t.busy);
+    assert_true (t.busy > 0);
+  }
   assert_null (qv_anharmonic_window_get_error (w));
   out = run_cli (json_args);
   check_against_json (w, out);
