@@ -6,6 +6,7 @@
 #include <string.h>
 #include "qv-anharmonic-window.h"
 #include "qv-error.h"
+#include "qv-error-dialog.h"
 #include "qv-output.h"
 #include "qv-png-writer.h"
 #include "qv-potential-plot.h"
@@ -77,7 +78,7 @@ struct _QvAnharmonicWindow
   guint degree;              /* 0: the default */
   GCancellable *job;
   char *error;
-  GtkWindow *error_dialog;   /* weak */
+  GtkWindow *error_dialog;   /* cleared when it goes (error_dialog_gone) */
   gint hover_level;
   gboolean syncing;          /* the controls are being set from a result */
   char *cells[N_LEVELS * 4][QV_ANHARMONIC_N_COLUMNS];
@@ -165,16 +166,15 @@ fail:
 /* ---- showing ---- */
 
 static void
-error_dialog_response (GtkDialog *dialog, int response, gpointer data)
+error_dialog_gone (QvAnharmonicWindow *self, GtkWindow *dialog)
 {
-  gtk_window_destroy (GTK_WINDOW (dialog));
+  if (self->error_dialog == dialog)
+    self->error_dialog = NULL;
 }
 
 static void
 show_error (QvAnharmonicWindow *self, const char *primary, const GError *error)
 {
-  GtkWidget *dialog;
-
   g_free (self->error);
   self->error = g_strdup (error->message);
   gtk_label_set_label (self->error_label, error->message);
@@ -182,13 +182,10 @@ show_error (QvAnharmonicWindow *self, const char *primary, const GError *error)
   gtk_widget_set_sensitive (self->save_button, FALSE);
   if (self->error_dialog)
     gtk_window_destroy (self->error_dialog);
-  dialog = gtk_message_dialog_new (GTK_WINDOW (self), GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
-                                   GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE, "%s", primary);
-  gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog), "%s", error->message);
-  g_signal_connect (dialog, "response", G_CALLBACK (error_dialog_response), NULL);
-  self->error_dialog = GTK_WINDOW (dialog);
-  g_object_add_weak_pointer (G_OBJECT (dialog), (gpointer *) &self->error_dialog);
-  gtk_window_present (GTK_WINDOW (dialog));
+  self->error_dialog = qv_error_dialog_show (GTK_WIDGET (self), primary, error);
+  /* NULL again once it is answered and gone (disconnected if we go first) */
+  g_signal_connect_object (self->error_dialog, "destroy", G_CALLBACK (error_dialog_gone), self,
+                           G_CONNECT_SWAPPED);
 }
 
 static void
@@ -670,12 +667,7 @@ save_response (GtkNativeDialog *chooser, int response, gpointer data)
       /* The chooser has asked before replacing a file. */
       if (path && !qv_anharmonic_window_save (self, path, TRUE, &error))
         {
-          GtkWidget *dialog = gtk_message_dialog_new (GTK_WINDOW (self), GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
-                                                      GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE, "%s",
-                                                      _("The levels could not be saved"));
-          gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog), "%s", error->message);
-          g_signal_connect (dialog, "response", G_CALLBACK (gtk_window_destroy), NULL);
-          gtk_window_present (GTK_WINDOW (dialog));
+          qv_error_dialog_show (GTK_WIDGET (self), _("The levels could not be saved"), error);
         }
     }
   gtk_native_dialog_destroy (chooser);
@@ -750,9 +742,7 @@ qv_anharmonic_window_dispose (GObject *object)
   if (self->job)
     g_cancellable_cancel (self->job);
   g_clear_object (&self->job);
-  if (self->error_dialog)
-    g_object_remove_weak_pointer (G_OBJECT (self->error_dialog), (gpointer *) &self->error_dialog);
-  self->error_dialog = NULL;
+  self->error_dialog = NULL;   /* error_dialog_gone is disconnected with us */
   G_OBJECT_CLASS (qv_anharmonic_window_parent_class)->dispose (object);
 }
 

@@ -6,6 +6,7 @@
 #include "qv-compare-window.h"
 #include "qv-comparison-table.h"
 #include "qv-error.h"
+#include "qv-error-dialog.h"
 #include "qv-json-writer.h"
 #include "qv-output.h"
 
@@ -238,12 +239,7 @@ save_response (GtkNativeDialog *chooser, int response, gpointer data)
       /* The chooser has asked before replacing a file. */
       if (path && !qv_compare_window_save_csv (self, path, TRUE, &error))
         {
-          GtkWidget *dialog = gtk_message_dialog_new (GTK_WINDOW (self), GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
-                                                      GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE, "%s",
-                                                      _("The overlap matrix could not be saved"));
-          gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog), "%s", error->message);
-          g_signal_connect (dialog, "response", G_CALLBACK (gtk_window_destroy), NULL);
-          gtk_window_present (GTK_WINDOW (dialog));
+          qv_error_dialog_show (GTK_WIDGET (self), _("The overlap matrix could not be saved"), error);
         }
     }
   gtk_native_dialog_destroy (chooser);

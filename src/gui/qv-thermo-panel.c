@@ -11,6 +11,7 @@
 #include <math.h>
 #include <string.h>
 #include "qv-error.h"
+#include "qv-error-dialog.h"
 #include "qv-output.h"
 #include "qv-png-writer.h"
 #include "qv-preferences.h"
@@ -1153,14 +1154,7 @@ save_response (GtkNativeDialog *chooser, int response, gpointer data)
       if (path && !(sweep ? qv_thermo_panel_save_sweep (self, path, TRUE, &error)
                           : qv_thermo_panel_save_table (self, path, TRUE, &error)))
         {
-          GtkRoot *root = gtk_widget_get_root (GTK_WIDGET (self));
-          GtkWidget *dialog = gtk_message_dialog_new (GTK_IS_WINDOW (root) ? GTK_WINDOW (root) : NULL,
-                                                      GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
-                                                      GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE, "%s",
-                                                      _("The thermochemistry could not be saved"));
-          gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog), "%s", error->message);
-          g_signal_connect (dialog, "response", G_CALLBACK (gtk_window_destroy), NULL);
-          gtk_window_present (GTK_WINDOW (dialog));
+          qv_error_dialog_show (GTK_WIDGET (self), _("The thermochemistry could not be saved"), error);
         }
     }
   gtk_native_dialog_destroy (chooser);

@@ -6,6 +6,7 @@
 #include <math.h>
 #include "qv-atom-popover.h"
 #include "qv-error.h"
+#include "qv-error-dialog.h"
 #include "qv-export-pane.h"
 #include "qv-hessian-dialog.h"
 #include "qv-lattice-pane.h"
@@ -408,36 +409,21 @@ qv_window_cancel (QvWindow *self)
 /* ---- errors ---- */
 
 static void
-error_dialog_response (GtkDialog *dialog, int response, gpointer data)
+error_dialog_gone (QvWindow *self, GtkWindow *dialog)
 {
-  QvWindow *self = data;
-  if (self->error_dialog == GTK_WINDOW (dialog))
+  if (self->error_dialog == dialog)
     self->error_dialog = NULL;
-  gtk_window_destroy (GTK_WINDOW (dialog));
 }
 
 void
 qv_window_show_error (QvWindow *self, const char *primary, const GError *error)
 {
-  GtkWidget *dialog;
-
   if (self->error_dialog)
     gtk_window_destroy (self->error_dialog);
-  dialog = gtk_message_dialog_new (GTK_WINDOW (self),
-                                   GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
-                                   GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE, "%s", primary);
-  gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog), "%s",
-                                            error ? error->message : "");
-  /* The reader's message says file:line:col: select and copy it. */
-  {
-    GtkWidget *area = gtk_message_dialog_get_message_area (GTK_MESSAGE_DIALOG (dialog));
-    for (GtkWidget *c = gtk_widget_get_first_child (area); c; c = gtk_widget_get_next_sibling (c))
-      if (GTK_IS_LABEL (c))
-        gtk_label_set_selectable (GTK_LABEL (c), TRUE);
-  }
-  g_signal_connect (dialog, "response", G_CALLBACK (error_dialog_response), self);
-  self->error_dialog = GTK_WINDOW (dialog);
-  gtk_window_present (GTK_WINDOW (dialog));
+  self->error_dialog = qv_error_dialog_show (GTK_WIDGET (self), primary, error);
+  /* NULL again once it is answered and gone (disconnected if we go first) */
+  g_signal_connect_object (self->error_dialog, "destroy", G_CALLBACK (error_dialog_gone), self,
+                           G_CONNECT_SWAPPED);
 }
 
 GtkWindow *
