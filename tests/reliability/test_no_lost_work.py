@@ -53,7 +53,10 @@ def run(args, cwd, shim=None):
         if os.environ.get("QV_SANITIZED") == "1":
             # the shim comes before the ASan runtime in the library list
             env["ASAN_OPTIONS"] = (os.environ.get("ASAN_OPTIONS", "") + ":verify_asan_link_order=0").lstrip(":")
-    p = subprocess.run([QUAVER] + args, cwd=cwd, env=env, capture_output=True, timeout=120)
+    # a guard against a hang; under memcheck (tests/tools/run-valgrind.sh)
+    # a GIF of the demo takes minutes, so the guard grows as meson's does
+    limit = 120 * (30 if os.environ.get("QV_VALGRIND_QUAVER") else 1)
+    p = subprocess.run([QUAVER] + args, cwd=cwd, env=env, capture_output=True, timeout=limit)
     p.err = p.stderr.decode("utf-8", "replace")
     ok(p.returncode >= 0, "%s: killed by signal %d" % (" ".join(args), -p.returncode))
     ok("Sanitizer" not in p.err and "runtime error:" not in p.err,
