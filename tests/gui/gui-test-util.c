@@ -139,6 +139,32 @@ qvg_build_path (const char *name)
   return g_build_filename (dir, name, NULL);
 }
 
+char *
+qvg_run_quaver (const char *cwd, const char *const *args)
+{
+  g_autoptr(GPtrArray) argv = g_ptr_array_new ();
+  g_autofree char *out = NULL, *err = NULL;
+  g_autoptr(GError) error = NULL;
+  int status = -1;
+
+  g_ptr_array_add (argv, (gpointer) g_getenv ("QUAVER"));
+  for (const char *const *a = args; *a; a++)
+    g_ptr_array_add (argv, (gpointer) *a);
+  g_ptr_array_add (argv, NULL);
+  if (!g_spawn_sync (cwd, (char **) argv->pdata, NULL, G_SPAWN_DEFAULT, NULL, NULL, &out, &err, &status,
+                     &error))
+    {
+      g_printerr ("quaver: %s\n", error->message);
+      return NULL;
+    }
+  if (!g_spawn_check_wait_status (status, NULL))
+    {
+      g_printerr ("quaver %s: %s\n", args[0] ? args[0] : "", err);
+      return NULL;
+    }
+  return g_steal_pointer (&out);
+}
+
 void
 qvg_remove_tree (const char *dir)
 {

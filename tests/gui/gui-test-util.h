@@ -28,6 +28,10 @@ guchar *qvg_pixels (GdkTexture *texture, gsize *stride);
 guint qvg_count_colours (const guchar *pixels, gsize stride, int x, int y, int w, int h);
 /* A file in the build tree's tests/gui directory (created). */
 char *qvg_build_path (const char *name);
+/* Runs `$QUAVER ARGS…` (@args NULL-terminated) in @cwd (NULL: here) and
+ * returns its standard output; NULL, with its standard error printed,
+ * unless it exited 0. */
+char *qvg_run_quaver (const char *cwd, const char *const *args);
 /* Removes @dir and everything below it (a test's temporary folder). */
 void qvg_remove_tree (const char *dir);
 

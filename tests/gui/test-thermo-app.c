@@ -48,20 +48,9 @@ open_demo (void)
 static char *
 run_cli (const char *const *args)
 {
-  g_autoptr(GPtrArray) argv = g_ptr_array_new ();
-  g_autofree char *out = NULL, *err = NULL;
-  int status = -1;
-
-  g_ptr_array_add (argv, (gpointer) g_getenv ("QUAVER"));
-  for (const char *const *a = args; *a; a++)
-    g_ptr_array_add (argv, (gpointer) *a);
-  g_ptr_array_add (argv, NULL);
-  assert_true (g_spawn_sync (NULL, (char **) argv->pdata, NULL, G_SPAWN_DEFAULT, NULL, NULL, &out, &err,
-                             &status, NULL));
-  if (!g_spawn_check_wait_status (status, NULL))
-    print_error ("quaver: %s\n", err);
-  assert_true (g_spawn_check_wait_status (status, NULL));
-  return g_steal_pointer (&out);
+  char *out = qvg_run_quaver (NULL, args);
+  assert_non_null (out);
+  return out;
 }
 
 static JsonParser *
