@@ -28,6 +28,7 @@ typedef struct {
   const char *name;
   GtkExpander *expander;
   GtkWidget *separator;        /* above it, or NULL */
+  gboolean crystals_only;      /* shown for a crystal document only */
   GtkWidget *widget;
   SetContextFunc set_context;
 } Section;
@@ -261,8 +262,7 @@ refresh (QvExportPane *self)
   for (guint i = 0; i < self->n_sections; i++)
     {
       Section *s = &self->sections[i];
-      /* the frozen phonon is for crystals only */
-      if (g_str_equal (s->name, "frozen"))
+      if (s->crystals_only)
         {
           gtk_widget_set_visible (GTK_WIDGET (s->expander), crystal);
           if (s->separator)
@@ -358,6 +358,7 @@ add_section (QvExportPane *self, const char *name, const char *title, const char
   gtk_widget_set_margin_top (expander, 6);
   gtk_widget_set_margin_bottom (expander, 6);
   s->separator = NULL;
+  s->crystals_only = FALSE;
   if (self->n_sections > 1)
     {
       s->separator = gtk_separator_new (GTK_ORIENTATION_HORIZONTAL);
@@ -424,6 +425,7 @@ qv_export_pane_init (QvExportPane *self)
   add_section (self, "frozen", _("_Frozen Phonon"), _("A supercell moved along the chosen lattice mode"),
                g_object_new (QV_TYPE_EXPORT_SECTION_FROZEN, NULL),
                (SetContextFunc) qv_export_section_frozen_set_context);
+  self->sections[self->n_sections - 1].crystals_only = TRUE;
 #ifdef QV_GUI_HAVE_PICTURE
   add_section (self, "picture", _("_Picture"), _("The view as PNG or SVG"),
                g_object_new (QV_TYPE_EXPORT_SECTION_PICTURE, NULL),
