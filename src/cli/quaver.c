@@ -29,6 +29,7 @@ static const Command commands[] = {
   { "frozen-phonon", qv_cmd_frozen, "a supercell displaced along one lattice mode at a commensurate q" },
   { "spectrum", qv_cmd_spectrum, "IR and Raman intensities and the broadened spectrum (CSV, JSON, PNG, SVG)" },
   { "compare", qv_cmd_compare, "overlap and best matching of two mode sets; Duschinsky J and K" },
+  { "convert", qv_cmd_convert, "a Hessian rewritten as NumPy .npy (float64, C order) for --distributed" },
   { "anharmonic", qv_cmd_anharmonic, "anharmonic levels on the energies of a scan or two-mode grid (sinc DVR)" },
 #ifdef QV_HAVE_RENDER
   { "picture", qv_cmd_picture, "a picture (PNG, SVG) or animation (GIF, XYZ) of a mode" },

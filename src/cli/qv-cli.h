@@ -61,6 +61,7 @@ gboolean qv_cmd_thermo_is_molecule (int argc, char **argv);
 int qv_cmd_frozen (int argc, char **argv);
 int qv_cmd_spectrum (int argc, char **argv);
 int qv_cmd_compare (int argc, char **argv);
+int qv_cmd_convert (int argc, char **argv);
 int qv_cmd_picture (int argc, char **argv);   /* builds with the renderer only */
 
 G_END_DECLS
