@@ -58,6 +58,7 @@ qv_hessian_copy (const QvHessian *hessian, GError **error)
     return NULL;
   memcpy (h->data, hessian->data, hessian->n * hessian->n * sizeof (double));
   h->layout = hessian->layout;
+  h->transposed = hessian->transposed;
   return h;
 }
 
@@ -97,6 +98,7 @@ qv_hessian_symmetrize (QvHessian *hessian)
               a[j + i * n] = m;
             }
       }
+  hessian->transposed = FALSE;   /* symmetric: both readings agree */
   return max_abs > 0.0 ? max_diff / max_abs : 0.0;
 }
 

@@ -16,13 +16,18 @@ typedef enum {
 
 /* An n×n matrix, coordinate order x1 y1 z1 x2 …, stored column-major in one
  * block. Because the solver symmetrizes first, a reader may store a row-major
- * source as it comes (that is, the transpose): the result is the same. After
- * reading, the readers fill both triangles. Values in eV/Å² once the reader's
- * caller has applied the unit. */
+ * source as it comes (that is, the transpose): the result is the same, and
+ * @transposed says so, for whatever writes the matrix out again (the
+ * writers of qv-hessian-writer.h honour it). After reading, the readers fill
+ * both triangles. Values in eV/Å² once the reader's caller has applied the
+ * unit. */
 typedef struct {
   gsize n;
   double *data;
   QvHessianLayout layout;   /* as read, for the report */
+  gboolean transposed;      /* element (i, j) is data[i n + j] instead of
+                               data[j n + i] (a full text or a C-order .npy
+                               stored as it came) */
 } QvHessian;
 
 /* Overflow-checked allocation of n×n doubles (zeroed when @zero). Fails with
@@ -34,7 +39,7 @@ QvHessian *qv_hessian_copy (const QvHessian *hessian, GError **error);
 
 /* Multiplies every element (unit conversion). */
 void qv_hessian_scale (QvHessian *hessian, double factor);
-/* Replaces H by (H + Hᵀ)/2 in place and returns max|H_ij − H_ji| / max|H|
+/* Replaces H by (H + Hᵀ)/2 in place (then no longer @transposed) and returns max|H_ij − H_ji| / max|H|
  * (0 for a zero matrix). */
 double qv_hessian_symmetrize (QvHessian *hessian);
 /* Index of the first non-finite element, or -1 when all are finite. */

@@ -1122,6 +1122,8 @@ out:
   if (used != QV_HESSIAN_LAYOUT_FULL)
     expand_triangle (hessian->data, dim, used);
   hessian->layout = used;
+  /* a full text is stored row by row as it comes, that is transposed */
+  hessian->transposed = used == QV_HESSIAN_LAYOUT_FULL;
   return g_steal_pointer (&hessian);
 }
 
@@ -1535,6 +1537,7 @@ npy_finish (QvHessian *hessian, const NpyHeader *h, const char *name, GError **e
         return FALSE;
       }
   hessian->layout = QV_HESSIAN_LAYOUT_NPY;
+  hessian->transposed = !h->fortran_order;
   return TRUE;
 }
 

@@ -34,8 +34,10 @@ qv_hessian_format_text (const QvHessian *h, const char *comment, gsize *length)
         {
           if (j)
             g_string_append_c (out, ' ');
-          /* Column-major storage: element (i, j) is data[j n + i]. */
-          g_string_append (out, qv_json_format_double (buf, h->data[j * n + i]));
+          /* Column-major storage: element (i, j) is data[j n + i] (data[i n
+           * + j] when the reader kept a row-major source as it came). */
+          g_string_append (out, qv_json_format_double (buf, h->transposed ? h->data[i * n + j]
+                                                                         : h->data[j * n + i]));
         }
       g_string_append_c (out, '\n');
     }
@@ -69,15 +71,20 @@ qv_hessian_format_npy (const QvHessian *h, gsize *length)
   memset (p + strlen (dict), ' ', header_len - strlen (dict) - 1);
   p[header_len - 1] = '\n';
   data = (guint64 *) (void *) (out + total_header);
-  /* Row i, column j in C order: element (i, j) of the column-major matrix. */
-  for (gsize i = 0; i < n; i++)
-    for (gsize j = 0; j < n; j++)
-      {
-        guint64 bits;
-        memcpy (&bits, &h->data[j * n + i], sizeof bits);
-        bits = GUINT64_TO_LE (bits);
-        memcpy (&data[i * n + j], &bits, sizeof bits);
-      }
+  /* Row i, column j in C order: element (i, j) of the column-major matrix,
+   * or, when the reader kept a row-major source as it came, the storage as
+   * it is. */
+  if (h->transposed && G_BYTE_ORDER == G_LITTLE_ENDIAN)
+    memcpy (data, h->data, n * n * sizeof (double));
+  else
+    for (gsize i = 0; i < n; i++)
+      for (gsize j = 0; j < n; j++)
+        {
+          guint64 bits;
+          memcpy (&bits, h->transposed ? &h->data[i * n + j] : &h->data[j * n + i], sizeof bits);
+          bits = GUINT64_TO_LE (bits);
+          memcpy (&data[i * n + j], &bits, sizeof bits);
+        }
   if (length)
     *length = size;
   return out;

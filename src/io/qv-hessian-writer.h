@@ -18,14 +18,14 @@ QvHessianWriteFormat qv_hessian_write_format_for (const char *path);
 /* Text: every element in the shortest spelling that reads back to the same
  * double, separated by single spaces; @comment (may be NULL, may hold several
  * lines) is written first with "# " before each line. Row i of the file is
- * H_i1 … H_in whatever the storage order. Newly allocated; @length may be
+ * H_i1 … H_in whatever the storage order (@transposed included). Newly allocated; @length may be
  * NULL. */
 char *qv_hessian_format_text (const QvHessian *hessian, const char *comment, gsize *length);
 
 /* .npy 1.0: magic, header {'descr': '<f8', 'fortran_order': False,
  * 'shape': (n, n), } padded with spaces to a multiple of 64 bytes and ended
  * by '\n' (the NumPy format's own rule), then the n² little-endian doubles
- * row by row. .npy has no room for a comment: state units elsewhere. */
+ * row by row: row i is H_i1 … H_in, as for the text (@transposed included). .npy has no room for a comment: state units elsewhere. */
 char *qv_hessian_format_npy (const QvHessian *hessian, gsize *length);
 
 /* Writes atomically through qv_output_write (an existing @path is refused
