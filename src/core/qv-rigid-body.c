@@ -180,20 +180,28 @@ gershgorin_bound (const double *k, gsize n)
   return best;
 }
 
+/* σ above the Gershgorin bound of K, and kv (KV) turned into
+ * W′ = KV − ½V(VᵀKV) − ½σV, so that K − VW′ᵀ − W′Vᵀ = K − VWᵀ − WVᵀ + σVVᵀ. */
+static double
+shifted_factor (const QvRigidBody *rb, double gershgorin, double *kv, const double *c)
+{
+  const int n = (int) rb->n, r = (int) qv_rigid_body_rank (rb);
+  double sigma = 1.05 * gershgorin;
+
+  if (!(sigma > 0.0))
+    sigma = 1.0;
+  cblas_dgemm (CblasColMajor, CblasNoTrans, CblasNoTrans, n, r, r, -0.5,
+               rb->basis, n, c, r, 1.0, kv, n);
+  cblas_daxpy (n * r, -0.5 * sigma, rb->basis, 1, kv, 1);
+  return sigma;
+}
+
 static double
 project_with_products (const QvRigidBody *rb, double *k, double *kv, const double *c)
 {
   const int n = (int) rb->n, r = (int) qv_rigid_body_rank (rb);
-  double sigma;
+  const double sigma = shifted_factor (rb, gershgorin_bound (k, rb->n), kv, c);
 
-  sigma = 1.05 * gershgorin_bound (k, rb->n);
-  if (!(sigma > 0.0))
-    sigma = 1.0;
-  /* W′ = KV − ½V(VᵀKV) − ½σV, so that K − VW′ᵀ − W′Vᵀ
-   *    = K − VWᵀ − WVᵀ + σVVᵀ. kv becomes W′. */
-  cblas_dgemm (CblasColMajor, CblasNoTrans, CblasNoTrans, n, r, r, -0.5,
-               rb->basis, n, c, r, 1.0, kv, n);
-  cblas_daxpy (n * r, -0.5 * sigma, rb->basis, 1, kv, 1);
   cblas_dsyr2k (CblasColMajor, CblasLower, CblasNoTrans, n, r, -1.0,
                 rb->basis, n, kv, n, 1.0, k, n);
   return sigma;
@@ -273,4 +281,22 @@ qv_rigid_body_mixing (const QvRigidBody *rb, const double *l, double lambda,
     return;
   *translations = block_mixing (rb, l, lambda, 0, (int) rb->n_translations);
   *rotations = block_mixing (rb, l, lambda, (int) rb->n_translations, (int) rb->n_rotations);
+}
+
+double
+qv_rigid_body_prepare_update (QvRigidBody *rb, double *kv, double gershgorin,
+                              double translations[3], double rotations[3])
+{
+  const int n = (int) rb->n, r = (int) qv_rigid_body_rank (rb);
+
+  for (int i = 0; i < 3; i++)
+    translations[i] = rotations[i] = 0.0;
+  if (r == 0)
+    return 0.0;
+  cblas_dgemm (CblasColMajor, CblasTrans, CblasNoTrans, r, r, n, 1.0,
+               rb->basis, n, kv, n, 0.0, rb->c, r);
+  residuals_from_products (rb, rb->c, translations, rotations);
+  g_free (rb->kv);
+  rb->kv = g_memdup2 (kv, sizeof (double) * rb->n * (gsize) r);
+  return shifted_factor (rb, gershgorin, kv, rb->c);
 }

@@ -45,6 +45,14 @@ double qv_rigid_body_project (const QvRigidBody *rb, double *k);
 double qv_rigid_body_project_with_residuals (QvRigidBody *rb, double *k,
                                              double translations[3], double rotations[3]);
 
+/* The same update for a solver that holds K in pieces (the distributed
+ * solver): @kv is KV (n × r, column-major) of the whole K, @gershgorin
+ * max_i Σ_j |K_ij|. Keeps KV and VᵀKV for qv_rigid_body_mixing, gives the
+ * residuals, and turns @kv into W′ so that K − VW′ᵀ − W′Vᵀ = PKP + σVVᵀ
+ * (the caller applies it to its pieces). Returns σ. */
+double qv_rigid_body_prepare_update (QvRigidBody *rb, double *kv, double gershgorin,
+                                     double translations[3], double rotations[3]);
+
 /* How much rigid-body motion the projection removed from a mode: for the
  * mass-weighted mode vector @l (eigenvalue @lambda of the projected K) and
  * each rigid-body direction j of the eigenbasis of VᵀKV within its block

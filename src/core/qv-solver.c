@@ -246,6 +246,59 @@ lapack_failed:
 }
 
 QvModeSet *
+qv_solver_finish (const QvStructure *structure, const double *masses, const QvRigidBody *rb,
+                  QvProjection projection, QvEigenpairs *pairs, double degeneracy_tolerance)
+{
+  const gsize n_atoms = structure->n_atoms, n = 3 * n_atoms;
+  const gsize n_modes = pairs->n_modes, m_solved = pairs->m_solved;
+  double *w = g_steal_pointer (&pairs->eigenvalues);
+  double *vectors = g_steal_pointer (&pairs->vectors);
+  const guint r = qv_rigid_body_rank (rb);
+  double tol, max_abs = 0.0;
+  QvModeSet *modes;
+
+  for (gsize i = 0; i < m_solved; i++)
+    max_abs = MAX (max_abs, fabs (w[i]));
+  tol = (degeneracy_tolerance > 0 ? degeneracy_tolerance : QV_SOLVE_DEFAULT_DEGENERACY) * max_abs;
+  repair_clusters (vectors, n, m_solved, w, tol);
+  qv_canonicalize (vectors, n, m_solved, w, tol, pairs->lowest_only && m_solved < n - r);
+  if (m_solved > n_modes)
+    {
+      vectors = g_realloc (vectors, sizeof (double) * n * MAX (n_modes, 1));
+      w = g_realloc (w, sizeof (double) * MAX (n_modes, 1));
+    }
+
+  modes = qv_mode_set_new (n_atoms, masses, n_modes, w, vectors);
+  modes->n_vibrations = n - r;
+  modes->projection = projection;
+  modes->n_translations = rb->n_translations;
+  modes->n_rotations = rb->n_rotations;
+  modes->linear = projection == QV_PROJECTION_FULL && rb->n_rotations == 2;
+  for (int i = 0; i < 3; i++)
+    {
+      modes->translation_residuals[i] = qv_wavenumber_from_eigenvalue (pairs->translations[i]);
+      modes->rotation_residuals[i] = qv_wavenumber_from_eigenvalue (pairs->rotations[i]);
+    }
+  if (r > 0)
+    {
+      modes->rigid_mixing = g_new (double, 2 * MAX (n_modes, 1));
+      for (gsize k = 0; k < n_modes; k++)
+        qv_rigid_body_mixing (rb, vectors + k * n, w[k], &modes->rigid_mixing[2 * k],
+                              &modes->rigid_mixing[2 * k + 1]);
+    }
+  modes->has_hessian = TRUE;
+  modes->asymmetry = pairs->asymmetry;
+  modes->lowest_only = pairs->lowest_only;
+  modes->eigensolver = pairs->eigensolver;
+  if (structure->forces)
+    {
+      modes->has_gradient = TRUE;
+      modes->gradient_norm = gradient_norm (structure, &modes->max_force);
+    }
+  return modes;
+}
+
+QvModeSet *
 qv_solve (const QvStructure *structure, QvHessian *hessian,
           const QvSolveOptions *options, const QvProgress *progress, GError **error)
 {
@@ -255,7 +308,7 @@ qv_solve (const QvStructure *structure, QvHessian *hessian,
   g_autofree double *positions = NULL;
   g_autoptr(QvRigidBody) rb = NULL;
   QvProjection projection;
-  double asymmetry, tol, max_abs = 0.0;
+  double asymmetry;
   double translations[3], rotations[3];
   double *w = NULL, *vectors = NULL;
   gsize r, n_vib, n_modes, m_solved;
@@ -357,45 +410,17 @@ qv_solve (const QvStructure *structure, QvHessian *hessian,
 
   /* past the point of no return: a cancel request here is ignored */
   qv_progress_report (progress, 0.95, "making eigenvectors canonical", NULL);
-  for (gsize i = 0; i < m_solved; i++)
-    max_abs = MAX (max_abs, fabs (w[i]));
-  tol = (options->degeneracy_tolerance > 0 ? options->degeneracy_tolerance
-                                           : QV_SOLVE_DEFAULT_DEGENERACY) * max_abs;
-  repair_clusters (vectors, n, m_solved, w, tol);
-  qv_canonicalize (vectors, n, m_solved, w, tol, lowest_only && m_solved < n_vib);
-  if (m_solved > n_modes)
-    {
-      vectors = g_realloc (vectors, sizeof (double) * n * n_modes);
-      w = g_realloc (w, sizeof (double) * n_modes);
-    }
-
-  modes = qv_mode_set_new (n_atoms, masses, n_modes, w, vectors);
-  modes->n_vibrations = n_vib;
-  modes->projection = projection;
-  modes->n_translations = rb->n_translations;
-  modes->n_rotations = rb->n_rotations;
-  modes->linear = projection == QV_PROJECTION_FULL && rb->n_rotations == 2;
-  for (int i = 0; i < 3; i++)
-    {
-      modes->translation_residuals[i] = qv_wavenumber_from_eigenvalue (translations[i]);
-      modes->rotation_residuals[i] = qv_wavenumber_from_eigenvalue (rotations[i]);
-    }
-  if (r > 0)
-    {
-      modes->rigid_mixing = g_new (double, 2 * MAX (n_modes, 1));
-      for (gsize k = 0; k < n_modes; k++)
-        qv_rigid_body_mixing (rb, vectors + k * n, w[k], &modes->rigid_mixing[2 * k],
-                              &modes->rigid_mixing[2 * k + 1]);
-    }
-  modes->has_hessian = TRUE;
-  modes->asymmetry = asymmetry;
-  modes->lowest_only = lowest_only;
-  modes->eigensolver = eigensolver;
-  if (structure->forces)
-    {
-      modes->has_gradient = TRUE;
-      modes->gradient_norm = gradient_norm (structure, &modes->max_force);
-    }
+  {
+    QvEigenpairs pairs = {
+      .eigenvalues = g_steal_pointer (&w), .vectors = g_steal_pointer (&vectors),
+      .m_solved = m_solved, .n_modes = n_modes, .lowest_only = lowest_only,
+      .eigensolver = eigensolver, .asymmetry = asymmetry,
+    };
+    memcpy (pairs.translations, translations, sizeof translations);
+    memcpy (pairs.rotations, rotations, sizeof rotations);
+    modes = qv_solver_finish (structure, masses, rb, projection, &pairs,
+                              options->degeneracy_tolerance);
+  }
   qv_progress_report (progress, 1.0, "done", NULL);
   return modes;
 

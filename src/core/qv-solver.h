@@ -5,6 +5,7 @@
 #include "qv-hessian.h"
 #include "qv-mode-set.h"
 #include "qv-progress.h"
+#include "qv-rigid-body.h"
 #include "qv-structure.h"
 
 G_BEGIN_DECLS
@@ -47,5 +48,27 @@ void qv_solver_mass_weight (double *matrix, gsize n_atoms, const double *masses)
 QvModeSet *qv_solve (const QvStructure *structure, QvHessian *hessian,
                      const QvSolveOptions *options, const QvProgress *progress,
                      GError **error);
+
+/* What an eigensolver found, before it becomes a mode set. */
+typedef struct {
+  double *eigenvalues;         /* m_solved, ascending, eV/(Å² u) (taken) */
+  double *vectors;             /* 3N × m_solved, column-major, mass weighted,
+                                  orthonormal (taken) */
+  gsize m_solved;              /* ≥ n_modes: pairs past a range complete a
+                                  degenerate set before it is made canonical */
+  gsize n_modes;               /* kept in the mode set */
+  gboolean lowest_only;
+  const char *eigensolver;     /* static name */
+  double asymmetry;            /* max|H_ij − H_ji| / max|H| */
+  double translations[3], rotations[3];  /* rigid-body residual eigenvalues */
+} QvEigenpairs;
+
+/* The end of the pipeline, shared by qv_solve and the distributed solver
+ * (qv-distributed-solver.h): repairs the orthogonality of close clusters,
+ * fixes signs and degenerate bases (qv-canonical.h), and builds the mode set
+ * with its diagnostics (residuals, rigid-body mixing from @rb's kept KV). */
+QvModeSet *qv_solver_finish (const QvStructure *structure, const double *masses,
+                             const QvRigidBody *rb, QvProjection projection,
+                             QvEigenpairs *pairs, double degeneracy_tolerance);
 
 G_END_DECLS
