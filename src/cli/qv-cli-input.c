@@ -137,7 +137,7 @@ qv_cli_input_load (const QvCliInputOptions *o, GError **error)
   QvInputOptions io = {
     .geometry = o->geometry, .demo = o->demo, .hessian = o->hessian,
     .hessian_units = o->hessian_units, .hessian_layout = o->hessian_layout,
-    .all_modes = o->all_modes,
+    .all_modes = o->all_modes, .hessian_deferred = o->hessian_deferred,
   };
   g_autoptr(QvInput) input = qv_input_load (&io, error);
 

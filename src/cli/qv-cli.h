@@ -32,6 +32,7 @@ typedef struct {
   char **mass_overrides;        /* ATOM=VALUE */
   gboolean all_modes;           /* refuse, before reading the Hessian, a size
                                    the all-modes solver cannot take */
+  gboolean hessian_deferred;    /* see QvInputOptions */
 } QvCliInputOptions;
 
 QvInput *qv_cli_input_load (const QvCliInputOptions *options, GError **error);

@@ -1618,25 +1618,28 @@ read_all (int fd, void *buffer, gsize count)
   return (gssize) done;
 }
 
-/* Reads the .npy file open on @fd straight into the matrix: only the
- * header is held besides it. */
-static QvHessian *
-read_npy_fd (int fd, const char *path, guint64 file_size, gsize n, GError **error)
+/* Reads and checks the header of the .npy file open on @fd (at its start):
+ * the dimension against @n (0: any) and the file's length against the data
+ * the header promises. Leaves @fd just past the header. */
+static gboolean
+npy_probe_fd (int fd, const char *path, guint64 file_size, gsize n, NpyHeader *h,
+              GError **error)
 {
   char prefix[12];
   g_autofree char *header = NULL;
   gsize header_total, want;
   gssize got;
-  NpyHeader h = { 0 };
-  g_autoptr(QvHessian) hessian = NULL;
-  gsize bytes;
-  char extra;
 
   got = read_all (fd, prefix, sizeof prefix);
   if (got < 0)
     goto read_failed;
   if ((gsize) got < sizeof prefix)
-    return qv_hessian_read_npy (prefix, (gsize) got, path, n, error);
+    {
+      if (!npy_parse_header (prefix, (gsize) got, path, h, error))
+        return FALSE;
+      qv_io_error (error, path, 0, 0, "the .npy file ends inside its header");
+      return FALSE;
+    }
   /* Parse the prefix alone first to learn the header length. */
   if (prefix[6] == 1)
     header_total = 10 + ((guchar) prefix[8] | ((gsize) (guchar) prefix[9] << 8));
@@ -1656,15 +1659,36 @@ read_npy_fd (int fd, const char *path, guint64 file_size, gsize n, GError **erro
   got = read_all (fd, header + sizeof prefix, want - sizeof prefix);
   if (got < 0)
     goto read_failed;
-  if (!npy_parse_header (header, sizeof prefix + (gsize) got, path, &h, error)
-      || !npy_check_dimension (&h, path, n, error))
-    return NULL;
-  if (file_size < h.data_offset)
-    file_size = h.data_offset;
-  if (!npy_check_data_length (&h, path, (gsize) MIN (file_size - h.data_offset,
-                                                     (guint64) G_MAXSIZE), error))
-    return NULL;
+  if (!npy_parse_header (header, sizeof prefix + (gsize) got, path, h, error)
+      || !npy_check_dimension (h, path, n, error))
+    return FALSE;
+  if (file_size < h->data_offset)
+    file_size = h->data_offset;
+  if (!npy_check_data_length (h, path, (gsize) MIN (file_size - h->data_offset,
+                                                    (guint64) G_MAXSIZE), error))
+    return FALSE;
+  if (lseek (fd, (off_t) h->data_offset, SEEK_SET) != (off_t) h->data_offset)
+    goto read_failed;
+  return TRUE;
 
+read_failed:
+  qv_io_error (error, path, 0, 0, "cannot read: %s", g_strerror (errno));
+  return FALSE;
+}
+
+/* Reads the .npy file open on @fd straight into the matrix: only the
+ * header is held besides it. */
+static QvHessian *
+read_npy_fd (int fd, const char *path, guint64 file_size, gsize n, GError **error)
+{
+  NpyHeader h = { 0 };
+  g_autoptr(QvHessian) hessian = NULL;
+  gsize bytes;
+  gssize got;
+  char extra;
+
+  if (!npy_probe_fd (fd, path, file_size, n, &h, error))
+    return NULL;
   hessian = new_matrix (h.dim, path, error);
   if (hessian == NULL)
     return NULL;
@@ -1824,4 +1848,49 @@ qv_hessian_read_file (const char *path, gsize n, QvHessianLayout layout,
     job_init_memory (&job, contents, contents + length);
     return run_jobs (&job, 1, contents, length, path, length, n, layout, TRUE, error);
   }
+}
+
+gboolean
+qv_hessian_probe_npy (const char *path, gsize n, QvNpyLayout *layout, GError **error)
+{
+  char magic[NPY_MAGIC_LEN];
+  NpyHeader h = { 0 };
+  struct stat st;
+  gssize got;
+  gboolean ok;
+  int fd;
+
+  fd = open (path, O_RDONLY | O_CLOEXEC);
+  if (fd < 0)
+    {
+      qv_io_error (error, path, 0, 0, "cannot open: %s", g_strerror (errno));
+      return FALSE;
+    }
+  if (fstat (fd, &st) != 0 || !S_ISREG (st.st_mode))
+    {
+      qv_io_error (error, path, 0, 0, "%s", S_ISDIR (st.st_mode) ? "is a directory, expected a file"
+                   : "is not a regular file; the ranks read their blocks at their own offsets");
+      close (fd);
+      return FALSE;
+    }
+  got = read_all (fd, magic, sizeof magic);
+  if (got < 0 || !has_npy_magic (magic, (gsize) got))
+    {
+      if (got < 0)
+        qv_io_error (error, path, 0, 0, "cannot read: %s", g_strerror (errno));
+      else
+        qv_io_error (error, path, 0, 0, "is not a NumPy .npy file; a text Hessian is converted "
+                     "once with 'quaver convert %s -o FILE.npy'", path);
+      close (fd);
+      return FALSE;
+    }
+  ok = lseek (fd, 0, SEEK_SET) == 0 && npy_probe_fd (fd, path, (guint64) st.st_size, n, &h, error);
+  close (fd);
+  if (!ok)
+    return FALSE;
+  layout->data_offset = h.data_offset;
+  layout->dim = h.dim;
+  layout->big_endian = h.big_endian;
+  layout->fortran_order = h.fortran_order;
+  return TRUE;
 }

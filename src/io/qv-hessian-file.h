@@ -40,4 +40,19 @@ QvHessian *qv_hessian_read_npy (const char *data, gsize length, const char *name
 QvHessian *qv_hessian_read_file (const char *path, gsize n, QvHessianLayout layout,
                                  GError **error);
 
+/* Where the data of a .npy Hessian lie, for readers that take only their
+ * part of it (the distributed solver's blocks). */
+typedef struct {
+  gsize data_offset;           /* bytes before the first element */
+  gsize dim;                   /* the array is dim × dim float64 */
+  gboolean big_endian;
+  gboolean fortran_order;      /* FALSE: C order, row by row */
+} QvNpyLayout;
+
+/* Reads only the header of the regular file @path and checks it as
+ * qv_hessian_read_file would (dtype, shape, @n (0: any), and that the file
+ * holds exactly the data the header promises). A text file is refused with
+ * the advice to convert it (`quaver convert`). */
+gboolean qv_hessian_probe_npy (const char *path, gsize n, QvNpyLayout *layout, GError **error);
+
 G_END_DECLS

@@ -4,6 +4,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <string.h>
 #include "qv-hessian-writer.h"
+#include "qv-npy-writer.h"
 #include "qv-json-writer.h"
 #include "qv-output.h"
 
@@ -49,45 +50,11 @@ qv_hessian_format_text (const QvHessian *h, const char *comment, gsize *length)
 char *
 qv_hessian_format_npy (const QvHessian *h, gsize *length)
 {
-  const gsize n = h->n;
-  g_autofree char *dict = g_strdup_printf (
-    "{'descr': '<f8', 'fortran_order': False, 'shape': (%" G_GSIZE_FORMAT ", %" G_GSIZE_FORMAT "), }",
-    n, n);
-  /* magic (6) + version (2) + header length (2) + header, a multiple of 64. */
-  const gsize unpadded = 10 + strlen (dict) + 1;
-  const gsize total_header = (unpadded + 63) / 64 * 64;
-  const gsize header_len = total_header - 10;
-  const gsize size = total_header + n * n * sizeof (double);
-  char *out, *p;
-  guint64 *data;
-
-  g_return_val_if_fail (header_len <= G_MAXUINT16, NULL);
-  out = g_malloc (size);
-  memcpy (out, "\x93NUMPY\x01\x00", 8);
-  out[8] = (char) (header_len & 0xff);
-  out[9] = (char) (header_len >> 8);
-  p = out + 10;
-  memcpy (p, dict, strlen (dict));
-  memset (p + strlen (dict), ' ', header_len - strlen (dict) - 1);
-  p[header_len - 1] = '\n';
-  data = (guint64 *) (void *) (out + total_header);
   /* Row i, column j in C order: element (i, j) of the column-major matrix,
    * or, when the reader kept a row-major source as it came, the storage as
    * it is. */
-  if (h->transposed && G_BYTE_ORDER == G_LITTLE_ENDIAN)
-    memcpy (data, h->data, n * n * sizeof (double));
-  else
-    for (gsize i = 0; i < n; i++)
-      for (gsize j = 0; j < n; j++)
-        {
-          guint64 bits;
-          memcpy (&bits, h->transposed ? &h->data[i * n + j] : &h->data[j * n + i], sizeof bits);
-          bits = GUINT64_TO_LE (bits);
-          memcpy (&data[i * n + j], &bits, sizeof bits);
-        }
-  if (length)
-    *length = size;
-  return out;
+  return h->transposed ? qv_npy_format (h->data, h->n, h->n, h->n, 1, length)
+                       : qv_npy_format (h->data, h->n, h->n, 1, h->n, length);
 }
 
 gboolean

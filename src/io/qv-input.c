@@ -148,6 +148,15 @@ load (QvInput *input, const QvInputOptions *o, GError **error)
         return FALSE;
       input->n_frames = frames->len;
       input->structure = qv_structure_copy (g_ptr_array_index (frames, 0));
+      if (o->hessian_deferred)
+        {
+          /* the caller reads it (each MPI rank its blocks) */
+          input->hessian_source = g_strdup (o->hessian);
+          input->hessian_units = g_strdup (qv_hessian_unit_name (unit));
+          input->hessian_scale = qv_hessian_unit_to_ev_a2 (unit);
+          input->layout = QV_HESSIAN_LAYOUT_NPY;
+          return TRUE;
+        }
       if (o->all_modes && 3 * input->structure->n_atoms > qv_solver_max_full_dimension ())
         {
           g_set_error (error, QV_ERROR, QV_ERROR_LIMIT,

@@ -42,6 +42,8 @@ typedef struct {
   char *dipole_units;           /* as the bundle wrote them, or NULL */
   char *polarizability_units;
   QvInputCrystal *crystal;      /* a bundle's "crystal", or NULL */
+  double hessian_scale;         /* hessian_deferred: the factor from the
+                                   file's unit to eV/Å² */
 } QvInput;
 
 typedef struct {
@@ -52,6 +54,9 @@ typedef struct {
   const char *hessian_layout;   /* NULL: detected */
   gboolean all_modes;           /* refuse, before reading the Hessian, a size
                                    the all-modes solver cannot take */
+  gboolean hessian_deferred;    /* a geometry's Hessian: check the options,
+                                   record its name and unit, leave it unread
+                                   (the distributed solver reads its blocks) */
 } QvInputOptions;
 
 /* TRUE when @path names a bundle (*.json) rather than a geometry. */
