@@ -1,5 +1,6 @@
 /* qv-cli-input.c — loading what the commands work on.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <stdarg.h>
 #include <errno.h>
 #include <stdio.h>
 #include <string.h>
@@ -26,6 +27,20 @@ qv_cli_fail (const char *command, GError *error)
   if (code == QV_EXIT_USAGE && command)
     g_printerr ("Try 'quaver %s --help'.\n", command);
   return code;
+}
+
+int
+qv_cli_fail_usage (const char *command, const char *format, ...)
+{
+  va_list args;
+  g_autofree char *message = NULL;
+  g_autoptr(GError) error = NULL;
+
+  va_start (args, format);
+  message = g_strdup_vprintf (format, args);
+  va_end (args);
+  g_set_error_literal (&error, QV_ERROR, QV_ERROR_USAGE, message);
+  return qv_cli_fail (command, error);
 }
 
 static gboolean

@@ -18,6 +18,8 @@ enum {
 /* Prints "quaver: message" (and a hint for usage errors) and returns the
  * exit code that fits the error. */
 int qv_cli_fail (const char *command, GError *error);
+/* qv_cli_fail of a usage error (QV_ERROR_USAGE) made from @format. */
+int qv_cli_fail_usage (const char *command, const char *format, ...) G_GNUC_PRINTF (2, 3);
 
 /* What a command reads: a geometry with a Hessian, or a bundle, with the
  * mass options applied. */

@@ -70,21 +70,6 @@ static const char anharmonic_description[] =
   "validate them before relying on them.";
 
 
-static int
-usage (const char *format, ...) G_GNUC_PRINTF (1, 2);
-
-static int
-usage (const char *format, ...)
-{
-  va_list args;
-  g_autofree char *message = NULL;
-  g_autoptr(GError) error = NULL;
-  va_start (args, format);
-  message = g_strdup_vprintf (format, args);
-  va_end (args);
-  g_set_error_literal (&error, QV_ERROR, QV_ERROR_USAGE, message);
-  return qv_cli_fail ("anharmonic", error);
-}
 
 int
 qv_cmd_anharmonic (int argc, char **argv)
@@ -136,7 +121,7 @@ qv_cmd_anharmonic (int argc, char **argv)
     }
   if (argc != 2)
     {
-      status = usage (argc < 2 ? "anharmonic needs the MANIFEST of a scan (manifest.json or its "
+      status = qv_cli_fail_usage ("anharmonic", argc < 2 ? "anharmonic needs the MANIFEST of a scan (manifest.json or its "
                       "directory)" : "anharmonic takes one MANIFEST, got %d", argc - 1);
       goto out;
     }
@@ -148,29 +133,29 @@ qv_cmd_anharmonic (int argc, char **argv)
         format = QV_SCAN_LEVELS_TABLE_JSON;
       else if (g_ascii_strcasecmp (format_arg, "text") != 0)
         {
-          status = usage ("unknown format '%s'; accepted: text, csv, json", format_arg);
+          status = qv_cli_fail_usage ("anharmonic", "unknown format '%s'; accepted: text, csv, json", format_arg);
           goto out;
         }
     }
   if (spline && degree)
     {
-      status = usage ("give --degree N or --spline, not both");
+      status = qv_cli_fail_usage ("anharmonic", "give --degree N or --spline, not both");
       goto out;
     }
   if (degree && (degree < 2 || degree > QV_SCAN_MAX_DEGREE))
     {
-      status = usage ("--degree must be from 2 to %d, got %d", QV_SCAN_MAX_DEGREE, degree);
+      status = qv_cli_fail_usage ("anharmonic", "--degree must be from 2 to %d, got %d", QV_SCAN_MAX_DEGREE, degree);
       goto out;
     }
   if (n_levels < 3 || n_levels > 200)
     {
-      status = usage ("--levels must be from 3 to 200 (the fundamental and overtone need three), "
+      status = qv_cli_fail_usage ("anharmonic", "--levels must be from 3 to 200 (the fundamental and overtone need three), "
                       "got %d", n_levels);
       goto out;
     }
   if (!(geometry_tolerance > 0) || !isfinite (geometry_tolerance))
     {
-      status = usage ("--geometry-tolerance must be a positive distance in A");
+      status = qv_cli_fail_usage ("anharmonic", "--geometry-tolerance must be a positive distance in A");
       goto out;
     }
   if (units_arg && !qv_energy_unit_parse (units_arg, &unit, &error))
@@ -180,7 +165,7 @@ qv_cmd_anharmonic (int argc, char **argv)
     }
   if (energies && units_arg == NULL)
     {
-      status = usage ("--energies needs --energy-units (%s): the unit is never guessed",
+      status = qv_cli_fail_usage ("anharmonic", "--energies needs --energy-units (%s): the unit is never guessed",
                       qv_energy_unit_list ());
       goto out;
     }

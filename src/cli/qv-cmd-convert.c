@@ -48,22 +48,6 @@ static const char convert_description[] =
   "\n"
   "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.";
 
-static int
-usage (const char *format, ...) G_GNUC_PRINTF (1, 2);
-
-static int
-usage (const char *format, ...)
-{
-  va_list args;
-  g_autofree char *message = NULL;
-  g_autoptr(GError) error = NULL;
-
-  va_start (args, format);
-  message = g_strdup_vprintf (format, args);
-  va_end (args);
-  g_set_error_literal (&error, QV_ERROR, QV_ERROR_USAGE, message);
-  return qv_cli_fail ("convert", error);
-}
 
 /* The atoms of the first frame of @path, or 0 with @error. */
 static gsize
@@ -138,34 +122,34 @@ qv_cmd_convert (int argc, char **argv)
     }
   if (argc != 2)
     {
-      status = usage (argc < 2 ? "convert needs a HESSIAN file" : "convert takes one HESSIAN, got %d",
+      status = qv_cli_fail_usage ("convert", argc < 2 ? "convert needs a HESSIAN file" : "convert takes one HESSIAN, got %d",
                       argc - 1);
       goto out;
     }
   if (output == NULL)
     {
-      status = usage ("convert needs -o OUT.npy");
+      status = qv_cli_fail_usage ("convert", "convert needs -o OUT.npy");
       goto out;
     }
   if (qv_hessian_write_format_for (output) != QV_HESSIAN_WRITE_NPY)
     {
-      status = usage ("%s: convert writes NumPy .npy only; give the output a name ending in .npy",
+      status = qv_cli_fail_usage ("convert", "%s: convert writes NumPy .npy only; give the output a name ending in .npy",
                       output);
       goto out;
     }
   if (atoms != 0 && geometry != NULL)
     {
-      status = usage ("give --atoms N or --geometry FILE, not both");
+      status = qv_cli_fail_usage ("convert", "give --atoms N or --geometry FILE, not both");
       goto out;
     }
   if (atoms < 0 || (guint64) atoms > G_MAXSIZE / 3)
     {
-      status = usage ("--atoms must be a positive whole number, got %" G_GINT64_FORMAT, atoms);
+      status = qv_cli_fail_usage ("convert", "--atoms must be a positive whole number, got %" G_GINT64_FORMAT, atoms);
       goto out;
     }
   if ((from_arg != NULL) != (to_arg != NULL))
     {
-      status = usage ("--hessian-units and --to-units go together: give both to convert the "
+      status = qv_cli_fail_usage ("convert", "--hessian-units and --to-units go together: give both to convert the "
                       "values, or neither to copy them unchanged");
       goto out;
     }
@@ -178,7 +162,7 @@ qv_cmd_convert (int argc, char **argv)
     }
   if (layout == QV_HESSIAN_LAYOUT_NPY)
     {
-      status = usage ("--hessian-layout takes auto, full, lower or upper (a .npy input is "
+      status = qv_cli_fail_usage ("convert", "--hessian-layout takes auto, full, lower or upper (a .npy input is "
                       "recognised by its contents)");
       goto out;
     }
