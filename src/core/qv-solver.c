@@ -245,6 +245,29 @@ lapack_failed:
   return NULL;
 }
 
+QvRigidBody *
+qv_solver_rigid_body (const QvStructure *structure, const double *masses, QvProjection requested,
+                      QvProjection *used, GError **error)
+{
+  const gsize n_atoms = structure->n_atoms;
+  g_autofree double *positions = g_new (double, MAX (3 * n_atoms, 1));
+
+  for (gsize a = 0; a < n_atoms; a++)
+    if (!(masses[a] > 0.0) || !isfinite (masses[a]))
+      {
+        g_set_error (error, QV_ERROR, QV_ERROR_INPUT, "atom %" G_GSIZE_FORMAT " has mass %g; masses must be positive",
+                     a + 1, masses[a]);
+        return NULL;
+      }
+  /* A crystal has no rotational invariance: full means translations. */
+  *used = requested;
+  if (requested == QV_PROJECTION_FULL && qv_structure_is_periodic (structure))
+    *used = QV_PROJECTION_TRANSLATIONS;
+  for (gsize a = 0; a < n_atoms; a++)
+    memcpy (positions + 3 * a, structure->atoms[a].position, sizeof (double) * 3);
+  return qv_rigid_body_new (n_atoms, positions, masses, *used);
+}
+
 QvModeSet *
 qv_solver_finish (const QvStructure *structure, const double *masses, const QvRigidBody *rb,
                   QvProjection projection, QvEigenpairs *pairs, double degeneracy_tolerance)
@@ -305,7 +328,6 @@ qv_solve (const QvStructure *structure, QvHessian *hessian,
   const gsize n_atoms = structure->n_atoms, n = 3 * n_atoms;
   QvSolveOptions defaults;
   g_autofree double *masses = NULL;
-  g_autofree double *positions = NULL;
   g_autoptr(QvRigidBody) rb = NULL;
   QvProjection projection;
   double asymmetry;
@@ -340,25 +362,12 @@ qv_solve (const QvStructure *structure, QvHessian *hessian,
   asymmetry = qv_hessian_symmetrize (hessian);
 
   masses = qv_structure_masses (structure);
-  for (gsize a = 0; a < n_atoms; a++)
-    if (!(masses[a] > 0.0) || !isfinite (masses[a]))
-      {
-        g_set_error (error, QV_ERROR, QV_ERROR_INPUT, "atom %" G_GSIZE_FORMAT " has mass %g; masses must be positive",
-                     a + 1, masses[a]);
-        goto fail;
-      }
+  rb = qv_solver_rigid_body (structure, masses, options->projection, &projection, error);
+  if (rb == NULL)
+    goto fail;
   if (!qv_progress_report (progress, 0.05, "mass weighting", error))
     goto fail;
   qv_solver_mass_weight (hessian->data, n_atoms, masses);
-
-  /* A crystal has no rotational invariance: full means translations. */
-  projection = options->projection;
-  if (projection == QV_PROJECTION_FULL && qv_structure_is_periodic (structure))
-    projection = QV_PROJECTION_TRANSLATIONS;
-  positions = g_new (double, n);
-  for (gsize a = 0; a < n_atoms; a++)
-    memcpy (positions + 3 * a, structure->atoms[a].position, sizeof (double) * 3);
-  rb = qv_rigid_body_new (n_atoms, positions, masses, projection);
   r = qv_rigid_body_rank (rb);
   n_vib = n - r;
 

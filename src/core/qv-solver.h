@@ -49,6 +49,12 @@ QvModeSet *qv_solve (const QvStructure *structure, QvHessian *hessian,
                      const QvSolveOptions *options, const QvProgress *progress,
                      GError **error);
 
+/* The rigid-body space both solvers remove: checks that every mass is
+ * positive (QV_ERROR_INPUT naming the atom), turns a full projection into
+ * translations only for a periodic structure (@used), and builds the basis. */
+QvRigidBody *qv_solver_rigid_body (const QvStructure *structure, const double *masses,
+                                   QvProjection requested, QvProjection *used, GError **error);
+
 /* What an eigensolver found, before it becomes a mode set. */
 typedef struct {
   double *eigenvalues;         /* m_solved, ascending, eV/(Å² u) (taken) */
