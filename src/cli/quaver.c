@@ -5,6 +5,7 @@
 #include <stdio.h>
 #include <string.h>
 #include "qv-cli.h"
+#include "qv-cli-distributed.h"
 #include "qv-config.h"
 #ifdef QV_HAVE_GUI
 #include "qv-gui.h"
@@ -100,7 +101,19 @@ main (int argc, char **argv)
     }
   for (gsize i = 0; i < G_N_ELEMENTS (commands); i++)
     if (strcmp (argv[1], commands[i].name) == 0)
-      return commands[i].run (argc - 1, argv + 1);
+      {
+        /* Under mpirun every rank runs the command; MPI starts before the
+         * options are parsed so that only rank 0 speaks. */
+        if (qv_cli_distributed_requested (argc, argv))
+          {
+            g_autoptr(GError) error = NULL;
+
+            if (!qv_cli_distributed_begin (&argc, &argv, &error))
+              return qv_cli_fail (commands[i].name, error);
+            return qv_cli_distributed_end (commands[i].run (argc - 1, argv + 1));
+          }
+        return commands[i].run (argc - 1, argv + 1);
+      }
 
 #ifdef QV_HAVE_GUI
   /* Not a command: the app, with files and --demo only. Anything else is

@@ -4,6 +4,7 @@
 #include <math.h>
 #include <string.h>
 #include <gio/gio.h>
+#include "qv-cli-distributed.h"
 #include "qv-cli-solve.h"
 #include "qv-error.h"
 #include "qv-input.h"
@@ -37,7 +38,18 @@ qv_cli_solve_add_entries (GOptionContext *context, QvCliSolveArgs *a)
       "Average the geometry and the Hessian over the point group before solving", NULL },
     { NULL }
   };
+  const GOptionEntry distributed[] = {
+    { "distributed", 0, 0, G_OPTION_ARG_NONE, &a->distributed,
+      "Solve over MPI ranks with ScaLAPACK: run as 'mpirun -n P quaver …' with a .npy Hessian "
+      "(docs/cluster.md)", NULL },
+    { "block-size", 0, 0, G_OPTION_ARG_INT64, &a->block_size,
+      "--distributed: rows and columns of the blocks dealt to the ranks (default 64)", "NB" },
+    { NULL }
+  };
+
   g_option_context_add_main_entries (context, entries, NULL);
+  if (a->offer_distributed)
+    g_option_context_add_main_entries (context, distributed, NULL);
 }
 
 /* Finds the point group (modes and table, or --symmetrize) and with
@@ -90,6 +102,35 @@ symmetry_before (QvCliSolveArgs *a, QvInput *input, GError **error)
   return TRUE;
 }
 
+/* What --distributed takes: a geometry with a .npy Hessian (each rank reads
+ * its blocks from the file), and nothing that needs the whole matrix. */
+static gboolean
+distributed_usage (const QvCliSolveArgs *a, const char *geometry, GError **error)
+{
+  const char *refused = a->demo ? "--demo (its Hessian is inside the bundle)"
+                        : a->symmetrize ? "--symmetrize (it averages the whole Hessian)"
+                        : a->layout ? "--hessian-layout (a .npy file says its own layout)"
+                        : a->method ? "--lowest-method (--distributed solves the lowest modes with pdsyevr)"
+                        : geometry && qv_input_is_bundle (geometry) ? "a bundle as GEOMETRY"
+                        : NULL;
+
+  if (refused)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
+                   "--distributed does not take %s; give an XYZ geometry with --hessian FILE.npy "
+                   "--hessian-units UNIT", refused);
+      return FALSE;
+    }
+  if (a->block_size < 0 || a->block_size > 4096)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE,
+                   "--block-size must be from 1 to 4096 (got %" G_GINT64_FORMAT "); 64 suits "
+                   "most clusters", a->block_size);
+      return FALSE;
+    }
+  return TRUE;
+}
+
 QvModeSet *
 qv_cli_solve (QvCliSolveArgs *a, const char *geometry, QvInput **input_out, GError **error)
 {
@@ -117,12 +158,31 @@ qv_cli_solve (QvCliSolveArgs *a, const char *geometry, QvInput **input_out, GErr
   io.isotopes = a->isotopes;
   io.mass_overrides = a->mass_overrides;
   io.all_modes = a->lowest == 0;
+  if (a->distributed && !distributed_usage (a, geometry, error))
+    return NULL;
+  if (!a->distributed && a->block_size != 0)
+    {
+      g_set_error (error, QV_ERROR, QV_ERROR_USAGE, "--block-size goes with --distributed");
+      return NULL;
+    }
+  io.hessian_deferred = a->distributed;
   input = qv_cli_input_load (&io, error);
   if (input == NULL)
     return NULL;
+  /* the point group and the labels are rank 0's work */
+  if (!qv_cli_distributed_is_root ())
+    a->want_symmetry = FALSE;
   if (!symmetry_before (a, input, error))
     return NULL;
-  if (input->hessian)
+  if (a->distributed)
+    {
+      solve.lowest = (gsize) a->lowest;
+      modes = qv_cli_distributed_solve (input->structure, input->hessian_source,
+                                        input->hessian_scale, &solve, (gsize) a->block_size, error);
+      if (modes == NULL)
+        return NULL;
+    }
+  else if (input->hessian)
     {
       solve.lowest = (gsize) a->lowest;
       modes = qv_solve (input->structure, g_steal_pointer (&input->hessian), &solve, &progress,

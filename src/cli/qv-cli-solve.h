@@ -23,6 +23,12 @@ typedef struct {
   double symmetry_tolerance;   /* --symmetry-tolerance, Å (0: the default) */
   gboolean symmetrize;         /* --symmetrize: average geometry and Hessian
                                   over the point group before solving */
+  gboolean distributed;        /* --distributed: every MPI rank solves its
+                                  blocks (qv-cli-distributed.h) */
+  gint64 block_size;           /* --block-size (0: the default) */
+  gboolean offer_distributed;  /* set before adding the entries: the command
+                                  offers --distributed (modes, table,
+                                  displace, picture) */
   gboolean want_symmetry;      /* set by the command: find the point group and
                                   label the modes (modes, table) */
   QvPointGroup *point_group;   /* out: the group found, or NULL */
@@ -31,12 +37,13 @@ typedef struct {
 
 /* Adds --hessian, --hessian-units, --hessian-layout, --project, --lowest,
  * --lowest-method, --masses, --isotope, --mass, --demo,
- * --symmetry-tolerance and --symmetrize (spelt and explained as in `quaver
+ * --symmetry-tolerance, --symmetrize, --distributed and --block-size (spelt and explained as in `quaver
  * modes`) to @context's main group. */
 void qv_cli_solve_add_entries (GOptionContext *context, QvCliSolveArgs *args);
 
 /* Reads @geometry (NULL with --demo) and solves (or takes the bundle's
- * precomputed modes). @input receives what was read (structure, names). */
+ * precomputed modes). @input receives what was read (structure, names).
+ * With --distributed: NULL without error on MPI ranks other than 0. */
 QvModeSet *qv_cli_solve (QvCliSolveArgs *args, const char *geometry, QvInput **input,
                          GError **error);
 

@@ -181,6 +181,7 @@ qv_cmd_displace (int argc, char **argv)
                                   "(default 0; with --levels the highest)");
   g_option_group_add_entries (group, entries);
   g_option_context_set_main_group (context, group);
+  solve.offer_distributed = TRUE;
   qv_cli_solve_add_entries (context, &solve);
   if (!g_option_context_parse (context, &argc, &argv, &error))
     {
@@ -318,6 +319,8 @@ qv_cmd_displace (int argc, char **argv)
     }
 
   modes = qv_cli_solve (&solve, geometry, &input, &error);
+  if (modes == NULL && error == NULL)
+    goto out;   /* --distributed: rank 0 writes */
   if (modes == NULL)
     {
       status = qv_cli_fail ("displace", error);

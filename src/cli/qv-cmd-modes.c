@@ -8,6 +8,7 @@
 #include "qv-error.h"
 #include "qv-mode-character.h"
 #include "qv-mode-table.h"
+#include "qv-npy-writer.h"
 #include "qv-output.h"
 #include "qv-solver.h"
 
@@ -34,12 +35,20 @@ static const char modes_description[] =
   "are required) or a Quaver bundle (*.quaver.json) that carries its Hessian.\n"
   "Atoms in --isotope and --mass count from 1.\n"
   "\n"
+  "--distributed solves over the ranks of 'mpirun -n P' with ScaLAPACK (pdsyevd\n"
+  "for every mode, pdsyevr for --lowest K) in a build with -Dmpi=enabled: each\n"
+  "rank reads only its blocks of a .npy Hessian (convert text once with 'quaver\n"
+  "convert'), rank 0 receives the vectors of the table's modes and writes the\n"
+  "same table as a serial run. docs/cluster.md gives the memory per rank.\n"
+  "\n"
   "Examples:\n"
   "  quaver modes --demo\n"
   "  quaver modes water.xyz --hessian water.hess --hessian-units hartree/bohr^2\n"
   "  quaver modes mol.quaver.json --level 2 --isotope 3=2 --format json -o modes.json\n"
   "  quaver modes big.xyz --hessian big.npy --hessian-units eV/A^2 --lowest 20\n"
   "  quaver modes --demo --character\n"
+  "  quaver convert big.hess --atoms 1500 -o big.npy\n"
+  "  mpirun -n 4 quaver modes big.xyz --hessian big.npy --hessian-units eV/A^2 --distributed\n"
   "\n"
   "Exit status: 0 success, 1 usage error, 2 bad input, 3 output not written.\n"
   "Harmonic modes are an approximation: validate them before relying on them.";
@@ -75,6 +84,31 @@ character_text (const QvModeCharacter *c, const QvModeSet *modes)
   return g_string_free (s, FALSE);
 }
 
+/* --save-vectors and --save-eigenvalues: the mode set's own numbers as
+ * .npy, for scripts (and the distributed tests) that want every digit. */
+static int
+save_arrays (const QvModeSet *modes, const char *vectors, const char *eigenvalues, gboolean force)
+{
+  const gsize n = 3 * modes->n_atoms;
+  g_autoptr(GError) error = NULL;
+
+  for (int i = 0; i < 2; i++)
+    {
+      const char *path = i == 0 ? vectors : eigenvalues;
+      g_autofree char *image = NULL;
+      gsize length = 0;
+
+      if (path == NULL)
+        continue;
+      /* row k of the vectors file is column k of the column-major set */
+      image = i == 0 ? qv_npy_format (modes->vectors, modes->n_modes, n, n, 1, &length)
+                     : qv_npy_format (modes->eigenvalues, modes->n_modes, 0, 1, 0, &length);
+      if (!qv_output_write (path, image, length, force, &error))
+        return qv_cli_fail ("modes", error);
+    }
+  return QV_EXIT_OK;
+}
+
 int
 qv_cmd_modes (int argc, char **argv)
 {
@@ -86,6 +120,7 @@ qv_cmd_modes (int argc, char **argv)
   g_autoptr(QvModeCharacter) make_up = NULL;
   g_autofree char *document = NULL;
   char *format = NULL, *output = NULL, *unit = NULL;
+  char *save_vectors = NULL, *save_eigenvalues = NULL;
   gint64 level = 0;
   double temperature = 298.15;
   gboolean force = FALSE, vectors = FALSE, character = FALSE;
@@ -103,12 +138,17 @@ qv_cmd_modes (int argc, char **argv)
     { "vectors", 0, 0, G_OPTION_ARG_NONE, &vectors, "JSON: include each mode's Cartesian displacement vector", NULL },
     { "character", 0, 0, G_OPTION_ARG_NONE, &character,
       "Each mode's make-up by internal coordinates (text and JSON)", NULL },
+    { "save-vectors", 0, 0, G_OPTION_ARG_FILENAME, &save_vectors,
+      "Also write the table's mode vectors to FILE as NumPy .npy (modes × 3N, mass weighted, orthonormal)", "FILE" },
+    { "save-eigenvalues", 0, 0, G_OPTION_ARG_FILENAME, &save_eigenvalues,
+      "Also write the table's eigenvalues to FILE as NumPy .npy (eV/(A^2 u))", "FILE" },
     { NULL }
   };
 
   g_set_prgname ("quaver modes");
   context = g_option_context_new ("GEOMETRY");
   g_option_context_set_description (context, modes_description);
+  solve.offer_distributed = TRUE;
   qv_cli_solve_add_entries (context, &solve);
   g_option_context_add_main_entries (context, entries, NULL);
   if (!g_option_context_parse (context, &argc, &argv, &error))
@@ -150,6 +190,8 @@ qv_cmd_modes (int argc, char **argv)
 
   solve.want_symmetry = TRUE;
   modes = qv_cli_solve (&solve, argc == 2 ? argv[1] : NULL, &input, &error);
+  if (modes == NULL && error == NULL)
+    goto out;   /* --distributed: rank 0 writes */
   if (modes == NULL)
     {
       status = qv_cli_fail ("modes", error);
@@ -179,9 +221,12 @@ qv_cmd_modes (int argc, char **argv)
       document = g_strconcat (table, extra, NULL);
     }
   status = qv_cli_emit ("modes", output, document, force);
+  if (status == QV_EXIT_OK && (save_vectors || save_eigenvalues))
+    status = save_arrays (modes, save_vectors, save_eigenvalues, force);
 
 out:
   g_free (format); g_free (output); g_free (unit);
+  g_free (save_vectors); g_free (save_eigenvalues);
   qv_cli_solve_args_clear (&solve);
   return status;
 }

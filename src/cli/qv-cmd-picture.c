@@ -272,6 +272,7 @@ qv_cmd_picture (int argc, char **argv)
   group = qv_cli_amplitude_group ("picture", &amp, "Vibrational level v of the turning point (default 0)");
   g_option_group_add_entries (group, entries);
   g_option_context_set_main_group (context, group);
+  solve.offer_distributed = TRUE;
   qv_cli_solve_add_entries (context, &solve);
   if (!g_option_context_parse (context, &argc, &argv, &error))
     goto fail;
@@ -317,6 +318,8 @@ qv_cmd_picture (int argc, char **argv)
       }
 
     modes = qv_cli_solve (&solve, argc == 2 ? argv[1] : NULL, &input, &error);
+    if (modes == NULL && error == NULL)
+      goto out;   /* --distributed: rank 0 draws */
     if (modes == NULL)
       goto fail;
     if (mode == 0)

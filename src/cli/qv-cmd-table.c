@@ -78,6 +78,7 @@ qv_cmd_table (int argc, char **argv)
   context = g_option_context_new ("GEOMETRY");
   g_option_context_set_description (context, table_description);
   g_option_context_add_main_entries (context, entries, NULL);
+  solve.offer_distributed = TRUE;
   qv_cli_solve_add_entries (context, &solve);
   if (!g_option_context_parse (context, &argc, &argv, &error))
     {
@@ -116,6 +117,8 @@ qv_cmd_table (int argc, char **argv)
   for (gsize i = 0; i < layout.n_columns; i++)
     solve.want_symmetry |= columns[i] == QV_COLUMN_SYMMETRY;
   modes = qv_cli_solve (&solve, argc == 2 ? argv[1] : NULL, &input, &error);
+  if (modes == NULL && error == NULL)
+    goto out;   /* --distributed: rank 0 writes */
   if (modes == NULL)
     {
       status = qv_cli_fail ("table", error);
