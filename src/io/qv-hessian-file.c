@@ -1866,7 +1866,13 @@ qv_hessian_probe_npy (const char *path, gsize n, QvNpyLayout *layout, GError **e
       qv_io_error (error, path, 0, 0, "cannot open: %s", g_strerror (errno));
       return FALSE;
     }
-  if (fstat (fd, &st) != 0 || !S_ISREG (st.st_mode))
+  if (fstat (fd, &st) != 0)
+    {
+      qv_io_error (error, path, 0, 0, "cannot read: %s", g_strerror (errno));
+      close (fd);
+      return FALSE;
+    }
+  if (!S_ISREG (st.st_mode))
     {
       qv_io_error (error, path, 0, 0, "%s", S_ISDIR (st.st_mode) ? "is a directory, expected a file"
                    : "is not a regular file; the ranks read their blocks at their own offsets");
